@@ -1,0 +1,6 @@
+// The one Wasm module of domtopo: this file only re-exports the kernel families.
+export * from "./memory";
+export { setGeometry, setBuffers } from "./common";
+export * from "./threshold";
+export * from "./label";
+export * from "./measure";

@@ -1,0 +1,249 @@
+// Connected-component labeling of both phases of a binary frame in one raster scan.
+// Two-pass union-find (Rosenfeld & Pfaltz 1966) with the decision tree of Wu, Otoo & Suzuki
+// 2009 (Pattern Anal. Appl. 12:117) for the 8-connected phase; the other phase is 4-connected
+// (complementary connectivity, so that the phases' topologies agree). Periodic boundaries: the
+// open-boundary components are then joined across the wrap edges by a second union-find whose
+// edges carry lattice shifts (a "union-find with potentials"); a cycle with a non-zero total
+// shift means the domain winds around the torus along that axis.
+import {
+  W, H, PX, PY, RULE, PA,
+  phaseAt, labelAt, setLabel, ldi, sti, joinsDiagonal,
+} from "./common";
+
+// ---- provisional union-find (PA), roots always link to the smaller label -------------------
+
+function findRoot(x: i32): i32 {
+  let p = ldi(PA, x);
+  while (p != x) { // path halving
+    const g = ldi(PA, p);
+    sti(PA, x, g);
+    x = g;
+    p = ldi(PA, x);
+  }
+  return x;
+}
+
+function unite(a: i32, b: i32): i32 {
+  const ra = findRoot(a);
+  const rb = findRoot(b);
+  if (ra < rb) { sti(PA, rb, ra); return ra; }
+  if (rb < ra) { sti(PA, ra, rb); return rb; }
+  return ra;
+}
+
+@inline function fresh(next: i32): i32 {
+  sti(PA, next, next);
+  return next;
+}
+
+/** First pass with fixed connectivity (RULE 0 or 1). Returns the number of provisional labels. */
+function scanFixed(): i32 {
+  const w = W, h = H;
+  const e8 = RULE == 0 ? 1 : 0; // the 8-connected phase
+  let next = 1;
+  sti(PA, 0, 0);
+  // Row 0: only the west neighbour exists.
+  for (let x = 0; x < w; x++) {
+    if (x > 0 && phaseAt(x - 1) == phaseAt(x)) setLabel(x, labelAt(x - 1));
+    else { setLabel(x, fresh(next)); next++; }
+  }
+  for (let y = 1; y < h; y++) {
+    const row = y * w;
+    for (let x = 0; x < w; x++) {
+      const i = row + x;
+      const n = i - w;
+      const v = phaseAt(i);
+      let l: i32;
+      if (phaseAt(n) == v) {
+        // North is ours. For the 8-phase it is adjacent to W, NW and NE, already joined.
+        l = labelAt(n);
+        if (v != e8 && x > 0 && phaseAt(i - 1) == v) {
+          const lw = labelAt(i - 1);
+          if (lw != l) l = unite(l, lw);
+        }
+      } else if (v == e8) {
+        const hasW = x > 0 && phaseAt(i - 1) == v;
+        if (x + 1 < w && phaseAt(n + 1) == v) {
+          l = labelAt(n + 1);
+          if (hasW) l = unite(l, labelAt(i - 1));
+          else if (x > 0 && phaseAt(n - 1) == v) l = unite(l, labelAt(n - 1));
+        } else if (hasW) {
+          l = labelAt(i - 1);
+        } else if (x > 0 && phaseAt(n - 1) == v) {
+          l = labelAt(n - 1);
+        } else { l = fresh(next); next++; }
+      } else if (x > 0 && phaseAt(i - 1) == v) {
+        l = labelAt(i - 1);
+      } else { l = fresh(next); next++; }
+      setLabel(i, l);
+    }
+  }
+  return next - 1;
+}
+
+@inline function joinInto(l: i32, j: i32): i32 {
+  const lj = labelAt(j);
+  if (l == 0) return lj;
+  return lj == l ? l : unite(l, lj);
+}
+
+/** First pass with the saddle rule: diagonal pairs join as QM decides, per quad. */
+function scanSaddle(): i32 {
+  const w = W, h = H;
+  let next = 1;
+  sti(PA, 0, 0);
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    for (let x = 0; x < w; x++) {
+      const i = row + x;
+      const v = phaseAt(i);
+      let l = 0;
+      if (x > 0 && phaseAt(i - 1) == v) l = joinInto(l, i - 1);
+      if (y > 0) {
+        const n = i - w;
+        if (phaseAt(n) == v) l = joinInto(l, n);
+        // NW-p is the main diagonal of quad (x-1, y-1); NE-p the anti-diagonal of quad (x, y-1).
+        if (x > 0 && phaseAt(n - 1) == v && joinsDiagonal(v, n - 1)) l = joinInto(l, n - 1);
+        if (x + 1 < w && phaseAt(n + 1) == v && joinsDiagonal(v, n)) l = joinInto(l, n + 1);
+      }
+      if (l == 0) { l = fresh(next); next++; }
+      setLabel(i, l);
+    }
+  }
+  return next - 1;
+}
+
+/**
+ * Labels both phases with open boundaries, then numbers the components 1..k in raster order of
+ * their first pixel: afterwards PA[provisional] is the component of that provisional label.
+ * Returns k. Pixel labels stay provisional until `measureRuns` rewrites them.
+ */
+export function labelScan(): i32 {
+  const n = RULE == 2 ? scanSaddle() : scanFixed();
+  let k = 0;
+  for (let l = 1; l <= n; l++) {
+    const p = ldi(PA, l);
+    if (p == l) { k++; sti(PA, l, k); } else sti(PA, l, ldi(PA, p));
+  }
+  return k;
+}
+
+// ---- periodic boundaries: union-find over components with lattice shifts ------------------
+// CQ parent, CSX/CSY shift of a component relative to its parent (in periods), CWF winding flags
+// (bit 0: x, bit 1: y), CFIN final domain id. Shift convention: a component's pixels sit at
+// (x + sx * W, y + sy * H) in its root's unwrapped frame.
+
+let CQ: usize = 0;
+let CSX: usize = 0;
+let CSY: usize = 0;
+let CWF: usize = 0;
+let CFIN: usize = 0;
+let FX: i32 = 0;
+let FY: i32 = 0;
+
+export function bindComponents(q: usize, sx: usize, sy: usize, wf: usize, fin: usize): void {
+  CQ = q; CSX = sx; CSY = sy; CWF = wf; CFIN = fin;
+}
+
+/** Root of component c; leaves c's shift relative to the root in FX, FY; compresses the path. */
+function cfind(c: i32): i32 {
+  let r = c;
+  let sx = 0, sy = 0;
+  let p = ldi(CQ, r);
+  while (p != r) {
+    sx += ldi(CSX, r);
+    sy += ldi(CSY, r);
+    r = p;
+    p = ldi(CQ, r);
+  }
+  let node = c, cx = sx, cy = sy;
+  while (node != r) {
+    const up = ldi(CQ, node);
+    const ox = ldi(CSX, node), oy = ldi(CSY, node);
+    sti(CQ, node, r); sti(CSX, node, cx); sti(CSY, node, cy);
+    cx -= ox; cy -= oy;
+    node = up;
+  }
+  FX = sx; FY = sy;
+  return r;
+}
+
+/** Joins component b, shifted by (tx, ty) periods, to component a. */
+function cunite(a: i32, b: i32, tx: i32, ty: i32): void {
+  const ra = cfind(a);
+  const ax = FX, ay = FY;
+  const rb = cfind(b);
+  const dx = ax + tx - FX, dy = ay + ty - FY; // rb's frame -> ra's frame
+  if (ra == rb) {
+    let f = ldi(CWF, ra);
+    if (dx != 0) f |= 1;
+    if (dy != 0) f |= 2;
+    sti(CWF, ra, f);
+    return;
+  }
+  if (ra < rb) {
+    sti(CQ, rb, ra); sti(CSX, rb, dx); sti(CSY, rb, dy);
+    sti(CWF, ra, ldi(CWF, ra) | ldi(CWF, rb));
+  } else {
+    sti(CQ, ra, rb); sti(CSX, ra, -dx); sti(CSY, ra, -dy);
+    sti(CWF, rb, ldi(CWF, rb) | ldi(CWF, ra));
+  }
+}
+
+@inline function componentOf(i: i32): i32 {
+  return ldi(PA, labelAt(i));
+}
+
+/** The forward edge from (x, y) by (dx, dy), dy >= 0, if it crosses a periodic side. */
+function wrapEdge(x: i32, y: i32, dx: i32, dy: i32): void {
+  let nx = x + dx, ny = y + dy, tx = 0, ty = 0;
+  if (nx < 0) { if (!PX) return; nx += W; tx = -1; }
+  else if (nx >= W) { if (!PX) return; nx -= W; tx = 1; }
+  if (ny >= H) { if (!PY) return; ny -= H; ty = 1; }
+  if (tx == 0 && ty == 0) return;
+  const i = y * W + x, j = ny * W + nx;
+  const v = phaseAt(i);
+  if (phaseAt(j) != v) return;
+  if (dx != 0 && dy != 0) {
+    let qx = dx > 0 ? x : x - 1;
+    if (qx < 0) qx += W;
+    if (!joinsDiagonal(v, y * W + qx)) return;
+  }
+  cunite(componentOf(i), componentOf(j), tx, ty);
+}
+
+function wrapPixel(x: i32, y: i32): void {
+  wrapEdge(x, y, 1, 0);
+  wrapEdge(x, y, 0, 1);
+  wrapEdge(x, y, 1, 1);
+  wrapEdge(x, y, -1, 1);
+}
+
+/**
+ * Joins the k open-boundary components across the periodic sides and numbers the resulting
+ * domains 1..K (in order of their smallest component). Returns K. Without periodic sides the
+ * domains are the components.
+ */
+export function resolvePeriodic(k: i32): i32 {
+  for (let c = 0; c <= k; c++) {
+    sti(CQ, c, c); sti(CSX, c, 0); sti(CSY, c, 0); sti(CWF, c, 0);
+  }
+  const w = W, h = H;
+  for (let x = 0; x < w; x++) {
+    wrapPixel(x, 0);
+    if (h > 1) wrapPixel(x, h - 1);
+  }
+  for (let y = 1; y < h - 1; y++) {
+    wrapPixel(0, y);
+    if (w > 1) wrapPixel(w - 1, y);
+  }
+  let K = 0;
+  for (let c = 1; c <= k; c++) {
+    if (cfind(c) == c) { K++; sti(CFIN, c, K); }
+  }
+  for (let c = 1; c <= k; c++) {
+    const r = ldi(CQ, c);
+    if (r != c) sti(CFIN, c, ldi(CFIN, r));
+  }
+  return K;
+}

@@ -1,0 +1,26 @@
+// The raw exports of the kernel module (assembly/index.ts). Pointers and sizes are numbers.
+export interface KernelExports {
+  memory: WebAssembly.Memory;
+  heapMark(): number;
+  heapRelease(mark: number): void;
+  heapAlloc(bytes: number): number;
+  memoryBytes(): number;
+  setGeometry(w: number, h: number, px: number, py: number, rule: number): void;
+  setBuffers(phase: number, labels: number, parents: number, quads: number): void;
+  thresholdU8(src: number, n: number, cut: number, invert: number): void;
+  thresholdU16(src: number, n: number, cut: number, invert: number): void;
+  thresholdF32(src: number, n: number, level: number, invert: number): number;
+  histogramInt(src: number, n: number, bytesPerSample: number, hist: number): void;
+  rangeF32(src: number, n: number, out: number): number;
+  histogramF32(src: number, n: number, lo: number, hi: number, bins: number, hist: number): void;
+  saddleQuads(src: number, kind: number, level: number, invert: number, quads: number): void;
+  absorbSpecks(area: number, domPhase: number, phase: number, minArea: number): number;
+  labelScan(): number;
+  bindComponents(q: number, sx: number, sy: number, wf: number, fin: number): void;
+  resolvePeriodic(k: number): number;
+  bindDomains(table: number): void;
+  fillTrigTables(): void;
+  measureRuns(K: number, periodic: number): void;
+  measureQuads(): void;
+  [more: string]: unknown;
+}
