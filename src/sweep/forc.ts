@@ -183,12 +183,12 @@ export function forcFromSweep(
   field: ArrayLike<number>,
   magnetization: ArrayLike<number>,
   options: ForcFromSweepOptions = {},
-): ForcDistribution & { curves: number } {
+): ForcDistribution & { curves: number; fieldTolerance: number } {
   const curves = reversalCurvesFromSweep(field, magnetization, options);
   if (curves.length === 0) {
     throw new Error("forcFromSweep: the sweep holds no ascending branch after a descending one, so no reversal curve");
   }
-  return { ...forcDistribution(curves, options), curves: curves.length };
+  return { ...forcDistribution(curves, options), curves: curves.length, fieldTolerance: options.fieldTolerance ?? 0 };
 }
 
 /** a6 of the 6 x 6 system A a = b (Gaussian elimination, partial pivoting), or undefined if singular. */

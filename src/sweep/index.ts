@@ -34,6 +34,7 @@ export { columnCurvesOnReversalGrid, columnOnReversalGrid, matchMajorLoop } from
 export type {
   HysteronEnsemble,
   HysteronEnsembleOptions,
+  HysteronMajorLoopOptions,
   ReversalFamilyOptions,
   SyntheticSweep,
   TanhLoopOptions,

@@ -210,11 +210,16 @@ export function hysteronSweep(model: HysteronEnsemble, options: ReversalFamilyOp
   return { field, magnetization, synthetic: true };
 }
 
+/** Options of {@link hysteronMajorLoop}. */
+export interface HysteronMajorLoopOptions {
+  /** The loop runs +fieldMax -> -fieldMax -> +fieldMax. @default 1.2 */
+  fieldMax?: number;
+  /** Field step between frames. @default 0.02 */
+  fieldStep?: number;
+}
+
 /** SYNTHETIC major loop of a hysteron ensemble: +fieldMax -> -fieldMax -> +fieldMax. */
-export function hysteronMajorLoop(
-  model: HysteronEnsemble,
-  options: { fieldMax?: number; fieldStep?: number } = {},
-): SyntheticSweep {
+export function hysteronMajorLoop(model: HysteronEnsemble, options: HysteronMajorLoopOptions = {}): SyntheticSweep {
   const fieldMax = options.fieldMax ?? 1.2;
   const step = options.fieldStep ?? 0.02;
   const ramp = rampFrom(-fieldMax, step, fieldMax);
