@@ -15,3 +15,4 @@ export { gaussianRandomField, derivativeVariances } from "./demo/grf";
 export type { RandomField, RandomFieldOptions } from "./demo/grf";
 export { demoSweep } from "./demo/sweep";
 export type { DemoSweep, DemoSweepOptions } from "./demo/sweep";
+export * from "./sweep/index";
