@@ -12,8 +12,17 @@ export interface ByteReader {
   read(offset: number, length: number): Uint8Array;
 }
 
+/**
+ * The same bytes as a plain `Uint8Array` view. Subclasses such as Node's `Buffer` are re-viewed
+ * because their `slice` shares memory instead of copying.
+ */
+export function plainBytes(bytes: Uint8Array): Uint8Array {
+  return Object.getPrototypeOf(bytes) === Uint8Array.prototype ? bytes : new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+}
+
 /** A reader over bytes already in memory (views, no copies). */
-export function memoryReader(bytes: Uint8Array): ByteReader {
+export function memoryReader(input: Uint8Array): ByteReader {
+  const bytes = plainBytes(input);
   return {
     size: bytes.length,
     read(offset, length) {
@@ -29,7 +38,7 @@ export function exactBuffer(bytes: Uint8Array): ArrayBuffer {
   if (buffer instanceof ArrayBuffer && bytes.byteOffset === 0 && bytes.byteLength === buffer.byteLength) {
     return buffer;
   }
-  return bytes.slice().buffer as ArrayBuffer;
+  return new Uint8Array(bytes).buffer as ArrayBuffer; // a copy, also for Buffer views of a pool
 }
 
 /** The message of anything thrown (some decoders throw strings). */

@@ -11,7 +11,7 @@
 import UTIFModule from "utif2";
 import type { Frame, FrameData } from "../types";
 import type { ByteReader } from "./bytes";
-import { exactBuffer, memoryReader, messageOf } from "./bytes";
+import { exactBuffer, memoryReader, messageOf, plainBytes } from "./bytes";
 import { luma } from "./luminance";
 
 /** What one TIFF page holds, from its IFD. */
@@ -69,7 +69,7 @@ export function tiffPageOffsets(input: Uint8Array | ByteReader, name = "tiff"): 
   const little = head[0] === 0x49 && head[1] === 0x49;
   const big = head[0] === 0x4d && head[1] === 0x4d;
   if (!little && !big) throw new Error(`${name}: not a TIFF file (bad byte-order mark)`);
-  const view = new DataView(head.buffer);
+  const view = new DataView(head.buffer, head.byteOffset, 8);
   const magic = view.getUint16(2, little);
   if (magic === 43) throw new Error(`${name}: BigTIFF files are not supported`);
   if (magic !== 42) throw new Error(`${name}: not a TIFF file (version ${magic}, expected 42)`);
@@ -218,7 +218,8 @@ function toFrame(raw: Uint8Array, info: TiffPageInfo, littleEndian: boolean): Fr
  * page only when asked. Throws, naming the file, on a bad header or IFD chain; page problems
  * (unsupported layout, truncated strips) are thrown by `page` / `readPage`, naming the page.
  */
-export function openTiff(bytes: Uint8Array, name = "tiff"): TiffStack {
+export function openTiff(input: Uint8Array, name = "tiff"): TiffStack {
+  const bytes = plainBytes(input);
   const offsets = tiffPageOffsets(bytes, name);
   const buffer = exactBuffer(bytes);
   let ifds: Ifd[];
