@@ -12,6 +12,9 @@ import type { Frame } from "../types";
 import type { ByteReader } from "./bytes";
 import { memoryReader } from "./bytes";
 
+/** Largest frame decoded (2^28 pixels, 16384 x 16384): guards against corrupt headers. */
+const MAX_PIXELS = 1 << 28;
+
 const MAGIC = [0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59]; // \x93 N U M P Y
 
 /** Element kinds this reader converts. */
@@ -117,6 +120,7 @@ export function parseNpyHeader(input: Uint8Array | ByteReader, name = "npy"): Np
   }
   const [frameCount, height, width] = shape.length === 2 ? [1, shape[0], shape[1]] : shape;
   if (height === 0 || width === 0) throw new Error(`${name}: frames are empty (shape (${shape.join(", ")}))`);
+  if (height * width > MAX_PIXELS) throw new Error(`${name}: frames of ${height} x ${width} are larger than ${MAX_PIXELS} pixels`);
   return {
     version: [major, minor],
     descr,
@@ -178,21 +182,26 @@ export function readNpyFrame(input: Uint8Array | ByteReader, index: number, name
   }
   const { width, height, frameCount, itemSize } = h;
   const n = width * height;
-  const out = outputArray(h.dtype, n);
   const get = elementReader(h.dtype, h.littleEndian);
   if (!h.fortranOrder) {
     // C order: element (k, y, x) at ((k H + y) W + x) itemSize.
     const need = n * itemSize;
     const offset = h.dataOffset + index * need;
+    if (offset + need > reader.size) throw truncated(name, index, need, offset, reader.size);
     const bytes = reader.read(offset, need);
     if (bytes.length < need) throw truncated(name, index, need, offset, reader.size);
+    const out = outputArray(h.dtype, n);
     const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     for (let i = 0; i < n; i++) out[i] = get(view, i * itemSize);
+    return { width, height, data: out };
   } else {
     // Fortran order: element (k, y, x) at (k + F y + F H x) itemSize. For one column x the
     // frame's samples (k, 0..H-1, x) lie in a slab of F (H - 1) + 1 elements.
     const slabElements = frameCount * (height - 1) + 1;
     const need = slabElements * itemSize;
+    const lastOffset = h.dataOffset + (index + frameCount * height * (width - 1)) * itemSize;
+    if (lastOffset + need > reader.size) throw truncated(name, index, need, lastOffset, reader.size);
+    const out = outputArray(h.dtype, n);
     for (let x = 0; x < width; x++) {
       const offset = h.dataOffset + (index + frameCount * height * x) * itemSize;
       const bytes = reader.read(offset, need);
@@ -200,8 +209,8 @@ export function readNpyFrame(input: Uint8Array | ByteReader, index: number, name
       const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
       for (let y = 0; y < height; y++) out[y * width + x] = get(view, frameCount * y * itemSize);
     }
+    return { width, height, data: out };
   }
-  return { width, height, data: out };
 }
 
 /** Decodes every frame of a .npy file in memory. */

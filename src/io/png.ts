@@ -78,7 +78,11 @@ function checkHeader(name: string, width: number, height: number, depth: number,
     throw new Error(`${name}: bit depth ${depth} is not allowed for PNG colour type ${colorType}`);
   }
   if (width === 0 || height === 0) throw new Error(`${name}: image is empty (${width} x ${height})`);
+  if (width * height > MAX_PIXELS) throw new Error(`${name}: image of ${width} x ${height} pixels is larger than ${MAX_PIXELS} pixels`);
 }
+
+/** Largest frame decoded (2^28 pixels, 16384 x 16384): guards against corrupt headers. */
+const MAX_PIXELS = 1 << 28;
 
 /**
  * Reads a PNG's header and animation control from its chunks, reading only chunk headers up to

@@ -56,6 +56,8 @@ const UTIF = UTIFModule as unknown as {
 };
 
 const MAX_PAGES = 1 << 22;
+/** Largest page decoded (2^28 pixels, 16384 x 16384): guards against corrupt tags. */
+const MAX_PIXELS = 1 << 28;
 
 /**
  * Walks the IFD chain (TIFF 6.0, section 2) and returns each IFD's offset, checking that every
@@ -122,6 +124,7 @@ function pageInfo(ifd: Ifd, where: string): TiffPageInfo {
   const width = first(ifd, 256, 0);
   const height = first(ifd, 257, 0);
   if (!(width > 0 && height > 0)) throw new Error(`${where}: image size is missing or zero (${width} x ${height})`);
+  if (width * height > MAX_PIXELS) throw new Error(`${where}: page of ${width} x ${height} pixels is larger than ${MAX_PIXELS} pixels`);
   const samplesPerPixel = first(ifd, 277, 1);
   const bitsList = tag(ifd, 258) ?? [1];
   const bitsPerSample = bitsList[0];

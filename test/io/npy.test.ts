@@ -139,6 +139,17 @@ describe(".npy data", () => {
     expect(() => readNpyFrame(file, 2, "stack.npy")).toThrow("stack.npy: frame 2: file is truncated (expected 8 bytes at offset 144, file has 148)");
     expect(() => readNpyFrame(file, 3, "stack.npy")).toThrow(/stack\.npy: frame 3 does not exist \(the array has 3\)/);
   });
+
+  it("names the frame of a truncated Fortran-order stack", () => {
+    // shape (2, 2, 2) u1 needs 8 data bytes; frame 1's last column slab ends at data byte 7.
+    const file = npyBytes("{'descr': '|u1', 'fortran_order': True, 'shape': (2, 2, 2), }", new Uint8Array(7));
+    expect(() => readNpyFrame(file, 1, "f.npy")).toThrow("f.npy: frame 1: file is truncated (expected 3 bytes at offset 133, file has 135)");
+  });
+
+  it("refuses a header that claims frames too large to be real before allocating them", () => {
+    const file = npyBytes("{'descr': '<f8', 'fortran_order': False, 'shape': (100000, 100000), }", new Uint8Array(8));
+    expect(() => parseNpyHeader(file, "huge.npy")).toThrow(/huge\.npy: frames of 100000 x 100000 are larger than/);
+  });
 });
 
 describe(".npy writer", () => {

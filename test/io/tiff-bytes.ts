@@ -140,3 +140,19 @@ export function packBits(data: Uint8Array): Uint8Array {
   }
   return Uint8Array.from(out);
 }
+
+/**
+ * LZW (TIFF 6.0, section 13) with literal codes only: ClearCode 256, one 9-bit code per byte,
+ * EndOfInformation 257, packed most significant bit first. Valid while fewer than 254 codes
+ * follow a ClearCode (the code width stays 9 bits).
+ */
+export function lzwLiterals(data: Uint8Array): Uint8Array {
+  if (data.length > 250) throw new RangeError("lzwLiterals keeps to 9-bit codes: at most 250 bytes");
+  const codes = [256, ...data, 257];
+  const out = new Uint8Array(Math.ceil((codes.length * 9) / 8));
+  let bit = 0;
+  for (const code of codes) {
+    for (let b = 8; b >= 0; b--, bit++) if ((code >> b) & 1) out[bit >> 3] |= 0x80 >> (bit & 7);
+  }
+  return out;
+}

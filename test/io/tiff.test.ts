@@ -2,11 +2,11 @@ import { deflateSync } from "node:zlib";
 import { describe, expect, it } from "vitest";
 import { countTiffPages, decodeTiff, isTiff, openTiff } from "../../src/io/tiff";
 import { seeded } from "./helpers";
-import { buildTiff, packBits, sampleBytes } from "./tiff-bytes";
+import { buildTiff, lzwLiterals, packBits, sampleBytes } from "./tiff-bytes";
 
 // Every TIFF here is hand-assembled from the TIFF 6.0 specification (see tiff-bytes.ts);
-// Deflate strips are compressed by Node's zlib (an independent encoder), PackBits by the
-// section 9 rules written out in tiff-bytes.ts.
+// Deflate strips are compressed by Node's zlib (an independent encoder), PackBits and LZW by the
+// section 9 and section 13 rules written out in tiff-bytes.ts.
 
 function values(n: number, seed: number, max: number): number[] {
   const rand = seeded(seed);
@@ -93,6 +93,14 @@ describe("TIFF pages", () => {
   });
 });
 
+describe("TIFF LZW strips", () => {
+  it("reads an LZW strip of literal codes", () => {
+    const v = values(6 * 5, 5, 256);
+    const file = buildTiff([{ width: 6, height: 5, bitsPerSample: 8, compression: 5, strips: [lzwLiterals(Uint8Array.from(v))] }]);
+    expect(Array.from(decodeTiff(file, "lzw.tif")[0].data)).toEqual(v);
+  });
+});
+
 describe("TIFF stacks", () => {
   const page = (k: number) => Array.from({ length: 6 }, (_, i) => 1000 * k + i);
 
@@ -155,6 +163,15 @@ describe("TIFF errors", () => {
     expect(Array.from(stack.readPage(0).data)).toEqual([1, 2]);
     expect(() => stack.readPage(1)).toThrow(/odd\.tif: page 1: 12-bit uint samples are not supported/);
     expect(() => stack.readPage(2)).toThrow(/odd\.tif: page 2 does not exist \(the file has 2\)/);
+  });
+
+  it("names the page whose Deflate data is corrupt", () => {
+    const garbage = Uint8Array.from([0x78, 0x9c, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0, 0, 0, 0]);
+    const file = buildTiff([
+      { width: 2, height: 1, bitsPerSample: 8, strips: [sampleBytes([1, 2], "u8")] },
+      { width: 4, height: 4, bitsPerSample: 8, compression: 8, strips: [garbage] },
+    ]);
+    expect(() => openTiff(file, "z.tif").readPage(1)).toThrow(/^z\.tif: page 1: image data is corrupt/);
   });
 
   it("names the page whose strips hold fewer bytes than its size needs", () => {
