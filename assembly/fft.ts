@@ -170,11 +170,22 @@ function linePlanBuild(lp: usize, n: i32, write: bool, tmp: usize): usize {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Stockham stages on blocks. A block buffer is four pointers (re, im of A; re, im of B); row r
-// of a plane starts at plane + r * RB, RB = 16 * NV bytes (NV f32x4 vectors per row).
+// Stockham stages on blocks. A block buffer is four planes (re, im of A; re, im of B); a row of a
+// plane is RB = 16 NV bytes (NV f32x4 vectors). Row r sits at byte ra(r) = (r + r / 64) RB: one
+// spare row every 64 rows, so that the p inputs of a butterfly, n / p rows apart, do not land on
+// the same cache set when n is a power of two.
 
 let RB: usize = 0;
 let NV: i32 = 0;
+
+@inline function ra(r: i32): usize {
+  return <usize>(r + (r >> 6)) * RB;
+}
+
+/** Bytes of one block plane of `rows` rows, padded so that consecutive planes are offset by 3 lines. */
+function planeBytes(rows: i32, rb: usize): usize {
+  return <usize>(rows + (rows >> 6) + 1) * rb + 192;
+}
 
 @inline function cmulRe(xr: v128, xi: v128, wr: v128, wi: v128): v128 {
   return f32x4.sub(f32x4.mul(xr, wr), f32x4.mul(xi, wi));
@@ -183,113 +194,106 @@ let NV: i32 = 0;
   return f32x4.add(f32x4.mul(xr, wi), f32x4.mul(xi, wr));
 }
 
-// One stage: radix p, sub-length l, stride s. Reads rows q + s (j + m r), writes rows
-// q + s (p j + t), multiplying output t by w^t = exp(-2 pi i j t / l).
+// One stage: radix p, sub-length l, stride s, m = l / p. For j < m, q < s it reads rows
+// q + s (j + m r), r < p, and writes rows q + s (p j + t), t < p, multiplying output t by
+// w^t = exp(-2 pi i j t / l).
 function stage2(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: usize): void {
-  const m = l >> 1;
-  const rs = <usize>s * RB;          // bytes between rows q and q + s
-  const step = <usize>m * rs;        // input rows r and r + 1 are m s rows apart
+  const m = l >> 1, ms = m * s;
   for (let j = 0; j < m; j++) {
     const wr = f32x4.splat(load<f32>(tw + (<usize>j << 3)));
     const wi = f32x4.splat(load<f32>(tw + (<usize>j << 3), 4));
-    const ib = <usize>j * rs, ob = <usize>(2 * j) * rs;
     for (let q = 0; q < s; q++) {
-      const i0 = ib + <usize>q * RB, o0 = ob + <usize>q * RB;
+      const ri = q + s * j, ro = q + 2 * s * j;
+      const a0 = ra(ri), a1 = ra(ri + ms);
+      const o0 = ra(ro), o1 = ra(ro + s);
       for (let v = 0; v < NV; v++) {
         const off = <usize>v << 4;
-        const a = i0 + off, o = o0 + off;
-        const x0r = v128.load(sr + a), x0i = v128.load(si + a);
-        const x1r = v128.load(sr + a + step), x1i = v128.load(si + a + step);
-        v128.store(dr + o, f32x4.add(x0r, x1r));
-        v128.store(di + o, f32x4.add(x0i, x1i));
+        const x0r = v128.load(sr + a0 + off), x0i = v128.load(si + a0 + off);
+        const x1r = v128.load(sr + a1 + off), x1i = v128.load(si + a1 + off);
+        v128.store(dr + o0 + off, f32x4.add(x0r, x1r));
+        v128.store(di + o0 + off, f32x4.add(x0i, x1i));
         const br = f32x4.sub(x0r, x1r), bi = f32x4.sub(x0i, x1i);
-        v128.store(dr + o + rs, cmulRe(br, bi, wr, wi));
-        v128.store(di + o + rs, cmulIm(br, bi, wr, wi));
+        v128.store(dr + o1 + off, cmulRe(br, bi, wr, wi));
+        v128.store(di + o1 + off, cmulIm(br, bi, wr, wi));
       }
     }
   }
 }
 
 function stage4(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: usize): void {
-  const m = l >> 2;
-  const rs = <usize>s * RB;
-  const step = <usize>m * rs;
+  const m = l >> 2, ms = m * s;
   for (let j = 0; j < m; j++) {
     const t = tw + <usize>(j * 3) * 8;
     const w1r = f32x4.splat(load<f32>(t)), w1i = f32x4.splat(load<f32>(t, 4));
     const w2r = f32x4.splat(load<f32>(t, 8)), w2i = f32x4.splat(load<f32>(t, 12));
     const w3r = f32x4.splat(load<f32>(t, 16)), w3i = f32x4.splat(load<f32>(t, 20));
-    const ib = <usize>j * rs, ob = <usize>(4 * j) * rs;
     for (let q = 0; q < s; q++) {
-      const i0 = ib + <usize>q * RB, o0 = ob + <usize>q * RB;
+      const ri = q + s * j, ro = q + 4 * s * j;
+      const a0 = ra(ri), a1 = ra(ri + ms), a2 = ra(ri + 2 * ms), a3 = ra(ri + 3 * ms);
+      const o0 = ra(ro), o1 = ra(ro + s), o2 = ra(ro + 2 * s), o3 = ra(ro + 3 * s);
       for (let v = 0; v < NV; v++) {
         const off = <usize>v << 4;
-        const a = i0 + off, o = o0 + off;
-        const x0r = v128.load(sr + a), x0i = v128.load(si + a);
-        const x1r = v128.load(sr + a + step), x1i = v128.load(si + a + step);
-        const x2r = v128.load(sr + a + 2 * step), x2i = v128.load(si + a + 2 * step);
-        const x3r = v128.load(sr + a + 3 * step), x3i = v128.load(si + a + 3 * step);
+        const x0r = v128.load(sr + a0 + off), x0i = v128.load(si + a0 + off);
+        const x1r = v128.load(sr + a1 + off), x1i = v128.load(si + a1 + off);
+        const x2r = v128.load(sr + a2 + off), x2i = v128.load(si + a2 + off);
+        const x3r = v128.load(sr + a3 + off), x3i = v128.load(si + a3 + off);
         const t0r = f32x4.add(x0r, x2r), t0i = f32x4.add(x0i, x2i);
         const t1r = f32x4.sub(x0r, x2r), t1i = f32x4.sub(x0i, x2i);
         const t2r = f32x4.add(x1r, x3r), t2i = f32x4.add(x1i, x3i);
         const t3r = f32x4.sub(x1r, x3r), t3i = f32x4.sub(x1i, x3i);
         // X0 = t0 + t2, X2 = t0 - t2, X1 = t1 - i t3, X3 = t1 + i t3
-        v128.store(dr + o, f32x4.add(t0r, t2r));
-        v128.store(di + o, f32x4.add(t0i, t2i));
+        v128.store(dr + o0 + off, f32x4.add(t0r, t2r));
+        v128.store(di + o0 + off, f32x4.add(t0i, t2i));
         const y1r = f32x4.add(t1r, t3i), y1i = f32x4.sub(t1i, t3r);
         const y2r = f32x4.sub(t0r, t2r), y2i = f32x4.sub(t0i, t2i);
         const y3r = f32x4.sub(t1r, t3i), y3i = f32x4.add(t1i, t3r);
-        v128.store(dr + o + rs, cmulRe(y1r, y1i, w1r, w1i));
-        v128.store(di + o + rs, cmulIm(y1r, y1i, w1r, w1i));
-        v128.store(dr + o + 2 * rs, cmulRe(y2r, y2i, w2r, w2i));
-        v128.store(di + o + 2 * rs, cmulIm(y2r, y2i, w2r, w2i));
-        v128.store(dr + o + 3 * rs, cmulRe(y3r, y3i, w3r, w3i));
-        v128.store(di + o + 3 * rs, cmulIm(y3r, y3i, w3r, w3i));
+        v128.store(dr + o1 + off, cmulRe(y1r, y1i, w1r, w1i));
+        v128.store(di + o1 + off, cmulIm(y1r, y1i, w1r, w1i));
+        v128.store(dr + o2 + off, cmulRe(y2r, y2i, w2r, w2i));
+        v128.store(di + o2 + off, cmulIm(y2r, y2i, w2r, w2i));
+        v128.store(dr + o3 + off, cmulRe(y3r, y3i, w3r, w3i));
+        v128.store(di + o3 + off, cmulIm(y3r, y3i, w3r, w3i));
       }
     }
   }
 }
 
 function stage3(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: usize): void {
-  const m = l / 3;
-  const rs = <usize>s * RB;
-  const step = <usize>m * rs;
+  const m = l / 3, ms = m * s;
   const h = f32x4.splat(<f32>0.86602540378443864676); // sin(2 pi / 3)
   const half = f32x4.splat(<f32>0.5);
   for (let j = 0; j < m; j++) {
     const t = tw + <usize>(j * 2) * 8;
     const w1r = f32x4.splat(load<f32>(t)), w1i = f32x4.splat(load<f32>(t, 4));
     const w2r = f32x4.splat(load<f32>(t, 8)), w2i = f32x4.splat(load<f32>(t, 12));
-    const ib = <usize>j * rs, ob = <usize>(3 * j) * rs;
     for (let q = 0; q < s; q++) {
-      const i0 = ib + <usize>q * RB, o0 = ob + <usize>q * RB;
+      const ri = q + s * j, ro = q + 3 * s * j;
+      const a0 = ra(ri), a1 = ra(ri + ms), a2 = ra(ri + 2 * ms);
+      const o0 = ra(ro), o1 = ra(ro + s), o2 = ra(ro + 2 * s);
       for (let v = 0; v < NV; v++) {
         const off = <usize>v << 4;
-        const a = i0 + off, o = o0 + off;
-        const x0r = v128.load(sr + a), x0i = v128.load(si + a);
-        const x1r = v128.load(sr + a + step), x1i = v128.load(si + a + step);
-        const x2r = v128.load(sr + a + 2 * step), x2i = v128.load(si + a + 2 * step);
+        const x0r = v128.load(sr + a0 + off), x0i = v128.load(si + a0 + off);
+        const x1r = v128.load(sr + a1 + off), x1i = v128.load(si + a1 + off);
+        const x2r = v128.load(sr + a2 + off), x2i = v128.load(si + a2 + off);
         const t1r = f32x4.add(x1r, x2r), t1i = f32x4.add(x1i, x2i);
         const t2r = f32x4.sub(x1r, x2r), t2i = f32x4.sub(x1i, x2i);
-        v128.store(dr + o, f32x4.add(x0r, t1r));
-        v128.store(di + o, f32x4.add(x0i, t1i));
+        v128.store(dr + o0 + off, f32x4.add(x0r, t1r));
+        v128.store(di + o0 + off, f32x4.add(x0i, t1i));
         const mr = f32x4.sub(x0r, f32x4.mul(half, t1r)), mi = f32x4.sub(x0i, f32x4.mul(half, t1i));
         // X1 = m - i h t2, X2 = m + i h t2
         const y1r = f32x4.add(mr, f32x4.mul(h, t2i)), y1i = f32x4.sub(mi, f32x4.mul(h, t2r));
         const y2r = f32x4.sub(mr, f32x4.mul(h, t2i)), y2i = f32x4.add(mi, f32x4.mul(h, t2r));
-        v128.store(dr + o + rs, cmulRe(y1r, y1i, w1r, w1i));
-        v128.store(di + o + rs, cmulIm(y1r, y1i, w1r, w1i));
-        v128.store(dr + o + 2 * rs, cmulRe(y2r, y2i, w2r, w2i));
-        v128.store(di + o + 2 * rs, cmulIm(y2r, y2i, w2r, w2i));
+        v128.store(dr + o1 + off, cmulRe(y1r, y1i, w1r, w1i));
+        v128.store(di + o1 + off, cmulIm(y1r, y1i, w1r, w1i));
+        v128.store(dr + o2 + off, cmulRe(y2r, y2i, w2r, w2i));
+        v128.store(di + o2 + off, cmulIm(y2r, y2i, w2r, w2i));
       }
     }
   }
 }
 
 function stage5(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: usize): void {
-  const m = l / 5;
-  const rs = <usize>s * RB;
-  const step = <usize>m * rs;
+  const m = l / 5, ms = m * s;
   const c1 = f32x4.splat(<f32>0.30901699437494742410);  // cos(2 pi / 5)
   const c2 = f32x4.splat(<f32>-0.80901699437494742410); // cos(4 pi / 5)
   const s1 = f32x4.splat(<f32>0.95105651629515357212);  // sin(2 pi / 5)
@@ -300,23 +304,23 @@ function stage5(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: 
     const w2r = f32x4.splat(load<f32>(t, 8)), w2i = f32x4.splat(load<f32>(t, 12));
     const w3r = f32x4.splat(load<f32>(t, 16)), w3i = f32x4.splat(load<f32>(t, 20));
     const w4r = f32x4.splat(load<f32>(t, 24)), w4i = f32x4.splat(load<f32>(t, 28));
-    const ib = <usize>j * rs, ob = <usize>(5 * j) * rs;
     for (let q = 0; q < s; q++) {
-      const i0 = ib + <usize>q * RB, o0 = ob + <usize>q * RB;
+      const ri = q + s * j, ro = q + 5 * s * j;
+      const a0 = ra(ri), a1 = ra(ri + ms), a2 = ra(ri + 2 * ms), a3 = ra(ri + 3 * ms), a4 = ra(ri + 4 * ms);
+      const o0 = ra(ro), o1 = ra(ro + s), o2 = ra(ro + 2 * s), o3 = ra(ro + 3 * s), o4 = ra(ro + 4 * s);
       for (let v = 0; v < NV; v++) {
         const off = <usize>v << 4;
-        const a = i0 + off, o = o0 + off;
-        const x0r = v128.load(sr + a), x0i = v128.load(si + a);
-        const x1r = v128.load(sr + a + step), x1i = v128.load(si + a + step);
-        const x2r = v128.load(sr + a + 2 * step), x2i = v128.load(si + a + 2 * step);
-        const x3r = v128.load(sr + a + 3 * step), x3i = v128.load(si + a + 3 * step);
-        const x4r = v128.load(sr + a + 4 * step), x4i = v128.load(si + a + 4 * step);
+        const x0r = v128.load(sr + a0 + off), x0i = v128.load(si + a0 + off);
+        const x1r = v128.load(sr + a1 + off), x1i = v128.load(si + a1 + off);
+        const x2r = v128.load(sr + a2 + off), x2i = v128.load(si + a2 + off);
+        const x3r = v128.load(sr + a3 + off), x3i = v128.load(si + a3 + off);
+        const x4r = v128.load(sr + a4 + off), x4i = v128.load(si + a4 + off);
         const a1r = f32x4.add(x1r, x4r), a1i = f32x4.add(x1i, x4i);
         const b1r = f32x4.sub(x1r, x4r), b1i = f32x4.sub(x1i, x4i);
         const a2r = f32x4.add(x2r, x3r), a2i = f32x4.add(x2i, x3i);
         const b2r = f32x4.sub(x2r, x3r), b2i = f32x4.sub(x2i, x3i);
-        v128.store(dr + o, f32x4.add(x0r, f32x4.add(a1r, a2r)));
-        v128.store(di + o, f32x4.add(x0i, f32x4.add(a1i, a2i)));
+        v128.store(dr + o0 + off, f32x4.add(x0r, f32x4.add(a1r, a2r)));
+        v128.store(di + o0 + off, f32x4.add(x0i, f32x4.add(a1i, a2i)));
         // X1,4 = x0 + c1 a1 + c2 a2 -/+ i (s1 b1 + s2 b2); X2,3 = x0 + c2 a1 + c1 a2 -/+ i (s2 b1 - s1 b2)
         const p1r = f32x4.add(x0r, f32x4.add(f32x4.mul(c1, a1r), f32x4.mul(c2, a2r)));
         const p1i = f32x4.add(x0i, f32x4.add(f32x4.mul(c1, a1i), f32x4.mul(c2, a2i)));
@@ -331,14 +335,14 @@ function stage5(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: 
         const y4r = f32x4.sub(p1r, q1i), y4i = f32x4.add(p1i, q1r);
         const y2r = f32x4.add(p2r, q2i), y2i = f32x4.sub(p2i, q2r);
         const y3r = f32x4.sub(p2r, q2i), y3i = f32x4.add(p2i, q2r);
-        v128.store(dr + o + rs, cmulRe(y1r, y1i, w1r, w1i));
-        v128.store(di + o + rs, cmulIm(y1r, y1i, w1r, w1i));
-        v128.store(dr + o + 2 * rs, cmulRe(y2r, y2i, w2r, w2i));
-        v128.store(di + o + 2 * rs, cmulIm(y2r, y2i, w2r, w2i));
-        v128.store(dr + o + 3 * rs, cmulRe(y3r, y3i, w3r, w3i));
-        v128.store(di + o + 3 * rs, cmulIm(y3r, y3i, w3r, w3i));
-        v128.store(dr + o + 4 * rs, cmulRe(y4r, y4i, w4r, w4i));
-        v128.store(di + o + 4 * rs, cmulIm(y4r, y4i, w4r, w4i));
+        v128.store(dr + o1 + off, cmulRe(y1r, y1i, w1r, w1i));
+        v128.store(di + o1 + off, cmulIm(y1r, y1i, w1r, w1i));
+        v128.store(dr + o2 + off, cmulRe(y2r, y2i, w2r, w2i));
+        v128.store(di + o2 + off, cmulIm(y2r, y2i, w2r, w2i));
+        v128.store(dr + o3 + off, cmulRe(y3r, y3i, w3r, w3i));
+        v128.store(di + o3 + off, cmulIm(y3r, y3i, w3r, w3i));
+        v128.store(dr + o4 + off, cmulRe(y4r, y4i, w4r, w4i));
+        v128.store(di + o4 + off, cmulIm(y4r, y4i, w4r, w4i));
       }
     }
   }
@@ -346,36 +350,36 @@ function stage5(sr: usize, si: usize, dr: usize, di: usize, l: i32, s: i32, tw: 
 
 /** Generic odd radix p (7, 11, 13): direct p-point DFT with the root table after the twiddles. */
 function stageP(sr: usize, si: usize, dr: usize, di: usize, p: i32, l: i32, s: i32, tw: usize): void {
-  const m = l / p;
-  const rs = <usize>s * RB;
-  const step = <usize>m * rs;
+  const m = l / p, ms = m * s;
   const roots = tw + <usize>(m * (p - 1)) * 8;
   for (let j = 0; j < m; j++) {
     const t = tw + <usize>(j * (p - 1)) * 8;
-    const ib = <usize>j * rs, ob = <usize>(p * j) * rs;
     for (let q = 0; q < s; q++) {
-      const i0 = ib + <usize>q * RB, o0 = ob + <usize>q * RB;
+      const ri = q + s * j, ro = q + p * s * j;
       for (let v = 0; v < NV; v++) {
-        const a = i0 + (<usize>v << 4), o = o0 + (<usize>v << 4);
+        const off = <usize>v << 4;
         for (let k = 0; k < p; k++) {
-          let accr = v128.load(sr + a), acci = v128.load(si + a);
+          const a0 = ra(ri) + off;
+          let accr = v128.load(sr + a0), acci = v128.load(si + a0);
           let e = 0;
           for (let r = 1; r < p; r++) {
             e += k;
             if (e >= p) e -= p;
-            const xr = v128.load(sr + a + <usize>r * step), xi = v128.load(si + a + <usize>r * step);
+            const a = ra(ri + r * ms) + off;
+            const xr = v128.load(sr + a), xi = v128.load(si + a);
             const rr = f32x4.splat(load<f32>(roots + (<usize>e << 3)));
-            const ri = f32x4.splat(load<f32>(roots + (<usize>e << 3), 4));
-            accr = f32x4.add(accr, cmulRe(xr, xi, rr, ri));
-            acci = f32x4.add(acci, cmulIm(xr, xi, rr, ri));
+            const rim = f32x4.splat(load<f32>(roots + (<usize>e << 3), 4));
+            accr = f32x4.add(accr, cmulRe(xr, xi, rr, rim));
+            acci = f32x4.add(acci, cmulIm(xr, xi, rr, rim));
           }
+          const o = ra(ro + k * s) + off;
           if (k == 0) {
             v128.store(dr + o, accr); v128.store(di + o, acci);
           } else {
             const wr = f32x4.splat(load<f32>(t + (<usize>(k - 1) << 3)));
             const wi = f32x4.splat(load<f32>(t + (<usize>(k - 1) << 3), 4));
-            v128.store(dr + o + <usize>k * rs, cmulRe(accr, acci, wr, wi));
-            v128.store(di + o + <usize>k * rs, cmulIm(accr, acci, wr, wi));
+            v128.store(dr + o, cmulRe(accr, acci, wr, wi));
+            v128.store(di + o, cmulIm(accr, acci, wr, wi));
           }
         }
       }
@@ -408,7 +412,7 @@ function rowMul(re: usize, im: usize, table: usize, rows: i32, conjAfter: bool):
   for (let r = 0; r < rows; r++) {
     const wr = f32x4.splat(load<f32>(table + (<usize>r << 3)));
     const wi = f32x4.splat(load<f32>(table + (<usize>r << 3), 4));
-    const row = <usize>r * RB;
+    const row = ra(r);
     for (let v = 0; v < NV; v++) {
       const o = row + (<usize>v << 4);
       const xr = v128.load(re + o), xi = v128.load(im + o);
@@ -421,8 +425,13 @@ function rowMul(re: usize, im: usize, table: usize, rows: i32, conjAfter: bool):
 /** Conjugates rows 0..rows-1 of `im` in place. */
 function rowConj(im: usize, rows: i32): void {
   const neg = f32x4.splat(<f32>-1);
-  const end = im + <usize>rows * RB;
-  for (let o = im; o < end; o += 16) v128.store(o, f32x4.mul(neg, v128.load(o)));
+  for (let r = 0; r < rows; r++) {
+    const row = im + ra(r);
+    for (let v = 0; v < NV; v++) {
+      const o = row + (<usize>v << 4);
+      v128.store(o, f32x4.mul(neg, v128.load(o)));
+    }
+  }
 }
 
 /** Forward line transform of rows 0..n-1 of block A; returns which block (0 A, 1 B) holds it. */
@@ -433,8 +442,8 @@ function lineForward(lp: usize, ar: usize, ai: usize, br: usize, bi: usize): i32
   const chirp = lp + <usize>lpw(lp, 5), fb = lp + <usize>lpw(lp, 6);
   // a_j = x_j c_j, zero-padded to M
   rowMul(ar, ai, chirp, n, false);
-  memory.fill(ar + <usize>n * RB, 0, <usize>(M - n) * RB);
-  memory.fill(ai + <usize>n * RB, 0, <usize>(M - n) * RB);
+  memory.fill(ar + ra(n), 0, ra(M) - ra(n));
+  memory.fill(ai + ra(n), 0, ra(M) - ra(n));
   // conv = IFFT(FFT(a) FFT(b)) with IFFT(Y) = conj(FFT(conj Y)) / M (1/M folded into fb)
   let w = stockham(sub, ar, ai, br, bi);
   let xr = w == 0 ? ar : br, xi = w == 0 ? ai : bi;
@@ -475,7 +484,7 @@ function fft2Layout(p: usize, w: i32, h: i32, write: bool): usize {
   const rowsW = needsBluestein(w) ? lineRows(w) : w;
   const R = rowsH > rowsW ? rowsH : rowsW;
   const scr = bytes;
-  bytes += <usize>4 * <usize>R * <usize>B * 4;
+  bytes += 4 * planeBytes(R, <usize>B << 2);
   const tre = bytes;
   bytes += <usize>w * <usize>ts * 4;
   const tim = bytes;
@@ -532,7 +541,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
   const tre = p + <usize>p2w(p, 10), tim = p + <usize>p2w(p, 11);
   NV = B >> 2;
   RB = <usize>B << 2;
-  const plane = <usize>R * RB;
+  const plane = planeBytes(R, RB);
   const ar = p + <usize>p2w(p, 8), ai = ar + plane, br = ai + plane, bi = br + plane;
   const rowBytes = <usize>w << 2, tsBytes = <usize>ts << 2;
 
@@ -542,7 +551,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
     if (x0 + 2 * B <= w) {
       for (let y = 0; y < h; y++) {
         const s = src + <usize>y * rowBytes + (<usize>x0 << 2);
-        const d = <usize>y * RB;
+        const d = ra(y);
         for (let v = 0; v < NV; v++) {
           const a = v128.load(s + (<usize>v << 5)), b = v128.load(s + (<usize>v << 5), 16);
           v128.store(ar + d + (<usize>v << 4), v128.shuffle<f32>(a, b, 0, 2, 4, 6));
@@ -552,7 +561,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
     } else {
       for (let y = 0; y < h; y++) {
         const s = src + <usize>y * rowBytes;
-        const d = <usize>y * RB;
+        const d = ra(y);
         for (let i = 0; i < B; i++) {
           const x = x0 + 2 * i;
           store<f32>(ar + d + (<usize>i << 2), x < w ? load<f32>(s + (<usize>x << 2)) : 0);
@@ -570,7 +579,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
       const hasOdd = x + 1 < w;
       for (let ky = 0; ky < hh; ky++) {
         const km = ky == 0 ? 0 : h - ky;
-        const o = <usize>ky * RB + lane, om = <usize>km * RB + lane;
+        const o = ra(ky) + lane, om = ra(km) + lane;
         const pr = load<f32>(zr + o), pi = load<f32>(zi + o);
         const mr = load<f32>(zr + om), mi = load<f32>(zi + om);
         store<f32>(er + (<usize>ky << 2), <f32>0.5 * (pr + mr));
@@ -587,7 +596,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
   for (let k0 = 0; k0 < hh; k0 += B) {
     const col = <usize>k0 << 2;
     for (let x = 0; x < w; x++) {
-      const s = <usize>x * tsBytes + col, d = <usize>x * RB;
+      const s = <usize>x * tsBytes + col, d = ra(x);
       for (let v = 0; v < NV; v++) {
         const o = <usize>v << 4;
         v128.store(ar + d + o, v128.load(tre + s + o));
@@ -597,7 +606,7 @@ export function fft2Forward(p: usize, src: usize): i32 {
     const where = lineForward(lpW, ar, ai, br, bi);
     const zr = where == 0 ? ar : br, zi = where == 0 ? ai : bi;
     for (let x = 0; x < w; x++) {
-      const d = <usize>x * tsBytes + col, s = <usize>x * RB;
+      const d = <usize>x * tsBytes + col, s = ra(x);
       for (let v = 0; v < NV; v++) {
         const o = <usize>v << 4;
         v128.store(tre + d + o, v128.load(zr + s + o));
