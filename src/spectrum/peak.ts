@@ -6,7 +6,7 @@ export interface ProfilePeak {
   bin: number;
   /** Interpolated peak position in bins (bin + offset, |offset| <= 1/2). */
   position: number;
-  /** Value at the maximum bin. */
+  /** Value at the maximum bin (the fitted height after `refinePeak`). */
   value: number;
   /** Interpolation actually used (a Gaussian fit falls back to a parabola on line spectra). */
   interpolation: "gaussian" | "parabolic" | "none";
@@ -106,9 +106,12 @@ export function refinePeak(values: ArrayLike<number>, peak: ProfilePeak, halfWid
   if (!(Math.abs(det) > 1e-12)) return peak;
   const db = s0 * (t1 * s4 - s3 * t2) - t0 * (s1 * s4 - s3 * s2) + s2 * (s1 * t2 - t1 * s2);
   const dc = s0 * (s2 * t2 - t1 * s3) - s1 * (s1 * t2 - t1 * s2) + t0 * (s1 * s3 - s2 * s2);
-  const b = db / det, c = dc / det;
+  const da = t0 * (s2 * s4 - s3 * s3) - s1 * (t1 * s4 - s3 * t2) + s2 * (t1 * s3 - s2 * t2);
+  const a = da / det, b = db / det, c = dc / det;
   if (!(c < 0)) return peak;
   const x = -b / (2 * c);
   if (!(Math.abs(peak.bin + x - peak.position) <= halfWidthBins)) return peak;
-  return { ...peak, position: peak.bin + x, interpolation: "gaussian" };
+  // the fitted height: less biased by the noise of one annulus than the largest bin
+  const value = Math.exp(a + b * x + c * x * x);
+  return { ...peak, position: peak.bin + x, value, interpolation: "gaussian" };
 }

@@ -140,7 +140,10 @@ class Workspace implements SpectrumWorkspace {
     const periodPx = 1 / qStarPx;
 
     // ring width from the structure factor (annulusMean)
-    const meanPeak = opts.peakOf === "annulusMean" ? peak : findPeak(profile.annulusMean, lo, hi, opts.peakInterpolation);
+    let meanPeak = opts.peakOf === "annulusMean" ? peak : findPeak(profile.annulusMean, lo, hi, opts.peakInterpolation);
+    if (meanPeak && meanPeak !== "edge" && opts.peakOf !== "annulusMean" && opts.peakInterpolation === "gaussian") {
+      meanPeak = refinePeak(profile.annulusMean, meanPeak, peakHalfWidth(profile.annulusMean, meanPeak));
+    }
     const hwhmBins = meanPeak && meanPeak !== "edge" ? peakHalfWidth(profile.annulusMean, meanPeak) : undefined;
     let ringHalfWidthQ: number | undefined, corrLength: number | undefined, corrLengthResolved = false;
     if (hwhmBins !== undefined && hwhmBins > 0) {
