@@ -804,3 +804,24 @@ export function spectrumPowerCentred(p: usize, scale: f32, out: usize): i32 {
   }
   return 1;
 }
+
+/** Phase map (u8, nonzero = up) to +1 / -1 f32 samples, 16 pixels a step. Returns n. */
+export function spectrumLoadBinary(src: usize, n: i32, dst: usize): i32 {
+  const zero = i8x16.splat(0);
+  const one = f32x4.splat(1), two = f32x4.splat(2);
+  let i = 0;
+  for (; i + 16 <= n; i += 16) {
+    // up lanes -> 0xff, down -> 0x00; widen to i32 masks, select +1 / -1
+    const up = v128.not(i8x16.eq(v128.load(src + <usize>i), zero));
+    const lo = i16x8.extend_low_i8x16_s(up), hi = i16x8.extend_high_i8x16_s(up);
+    const m0 = i32x4.extend_low_i16x8_s(lo), m1 = i32x4.extend_high_i16x8_s(lo);
+    const m2 = i32x4.extend_low_i16x8_s(hi), m3 = i32x4.extend_high_i16x8_s(hi);
+    const o = dst + (<usize>i << 2);
+    v128.store(o, f32x4.sub(v128.and(m0, two), one));
+    v128.store(o, f32x4.sub(v128.and(m1, two), one), 16);
+    v128.store(o, f32x4.sub(v128.and(m2, two), one), 32);
+    v128.store(o, f32x4.sub(v128.and(m3, two), one), 48);
+  }
+  for (; i < n; i++) store<f32>(dst + (<usize>i << 2), load<u8>(src + <usize>i) != 0 ? <f32>1 : <f32>-1);
+  return n;
+}

@@ -33,5 +33,6 @@ export interface KernelExports {
   spectrumRadial(plan: number, bins: number, sx: number, sy: number, sums: number, counts: number): number;
   spectrumRing(plan: number, rLo: number, rHi: number, sx: number, sy: number, angleBins: number, hist: number, moments: number): number;
   spectrumPowerCentred(plan: number, scale: number, out: number): number;
+  spectrumLoadBinary(src: number, n: number, dst: number): number;
   [more: string]: unknown;
 }

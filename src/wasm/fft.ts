@@ -2,7 +2,7 @@
 // and the power-spectrum reductions that run on its output. Memory is allocated once per plan;
 // views returned here stay valid until the next call into the kernels.
 import { kernels } from "./instance";
-import { wasmAlloc, wasmFree, viewF32, viewF64 } from "./heap";
+import { wasmAlloc, wasmFree, viewF32, viewF64, viewU8 } from "./heap";
 
 /** Largest side a plan accepts (the kernel's limit). */
 export const FFT_MAX_SIDE = 1 << 20;
@@ -149,6 +149,7 @@ export class SpectrumKernels {
   private angleBins = 0;
   private anglePtr = 0;
   private readonly moments: number;
+  private staging = 0;
 
   constructor(width: number, height: number) {
     this.fft = new RealFFT2D(width, height);
@@ -169,8 +170,14 @@ export class SpectrumKernels {
 
   /** Loads samples: `binary` maps nonzero to +1 and zero to -1, `grey` copies them. */
   load(data: ArrayLike<number>, signal: "binary" | "grey"): void {
+    const n = this.width * this.height;
+    if (signal === "binary" && data instanceof Uint8Array) {
+      if (!this.staging) this.staging = wasmAlloc(n);
+      viewU8(this.staging, n).set(data);
+      kernels().spectrumLoadBinary(this.staging, n, this.fft.inputPtr);
+      return;
+    }
     const v = this.fft.input();
-    const n = v.length;
     if (signal === "grey") {
       if (ArrayBuffer.isView(data)) v.set(data);
       else for (let i = 0; i < n; i++) v[i] = data[i]!;
@@ -245,6 +252,7 @@ export class SpectrumKernels {
     wasmFree(this.moments);
     if (this.binPtr) wasmFree(this.binPtr);
     if (this.anglePtr) wasmFree(this.anglePtr);
-    this.binPtr = this.anglePtr = 0;
+    if (this.staging) wasmFree(this.staging);
+    this.binPtr = this.anglePtr = this.staging = 0;
   }
 }
