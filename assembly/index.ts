@@ -4,3 +4,4 @@ export { setGeometry, setBuffers } from "./common";
 export * from "./threshold";
 export * from "./label";
 export * from "./measure";
+export * from "./fft";
