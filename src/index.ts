@@ -16,3 +16,4 @@ export type { RandomField, RandomFieldOptions } from "./demo/grf";
 export { demoSweep } from "./demo/sweep";
 export type { DemoSweep, DemoSweepOptions } from "./demo/sweep";
 export * from "./sweep/index";
+export * from "./spectrum/index";

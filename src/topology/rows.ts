@@ -28,6 +28,22 @@ export function frameRow(r: FrameResult): Array<[string, Cell]> {
       [`${name}_absorbed`, p.absorbed],
     );
   }
+  const sp = r.spectrum;
+  if (sp) {
+    const v = (x: number | undefined): Cell => (x === undefined || !Number.isFinite(x) ? "" : x);
+    row.push(
+      [`period_${u}`, v(sp.period)],
+      [`corr_length_${u}`, v(sp.corrLength)],
+      ["corr_length_resolved", sp.corrLengthResolved ? 1 : 0],
+      ["order2", v(sp.order2)],
+      ["order2_angle_deg", v(sp.order2AngleDeg)],
+      ["order6", v(sp.order6)],
+      ["order6_angle_deg", v(sp.order6AngleDeg)],
+      ["structure_order2", v(sp.structure?.order2)],
+      [`period_from_walls_${u}`, r.wallLengthDensity > 0 ? 2 / r.wallLengthDensity : ""],
+      ["spectrum_note", sp.reason ?? ""],
+    );
+  }
   return row;
 }
 
