@@ -7,6 +7,7 @@ export default defineConfig({
     index: "src/index.ts",
     node: "src/node.ts",
     cli: "src/cli/main.ts",
+    worker: "src/node/worker.ts",
   },
   format: ["esm", "cjs"],
   dts: { entry: { index: "src/index.ts", node: "src/node.ts" } },

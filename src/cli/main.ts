@@ -8,12 +8,17 @@ import { frameRow, domainHeader, domainRows, csvLine, type Cell } from "../topol
 import { demoSweep } from "../demo/sweep";
 import { AtomicWriter, writeFileAtomic } from "../node/atomic";
 import { Progress } from "./progress";
-import { decodePngFrame, encodeGreyPng } from "./frames-png";
+import { encodeGreyPng } from "./frames-png";
+import { listFrameFiles, openFrameFiles } from "../io/node-source";
+import { fieldsFromList, fieldsFromNames, fieldsFromSweep, fieldsFromTable, type FieldValues } from "../io/fields";
+import { runAnalysis } from "../node/run";
+import { AnalyzerCache, runFrameJob } from "../sequence/job";
+import { resolveFrameOptions } from "../topology/options";
 import type { Frame } from "../types";
 import { VERSION } from "../version";
 
-/** Exit codes: 0 done, 1 the run failed (bad input file, analysis error), 2 bad command line. */
-export const EXIT = { ok: 0, failed: 1, usage: 2 } as const;
+/** Exit codes: 0 done, 1 the run failed, 2 bad command line, 3 done but some frames failed. */
+export const EXIT = { ok: 0, failed: 1, usage: 2, someFramesFailed: 3 } as const;
 
 class UsageError extends Error {}
 
@@ -58,17 +63,34 @@ Writes DIR/frames/*.png, DIR/fields.csv (field per frame), DIR/frames.csv (one r
 DIR/domains.csv (one row per domain and frame) and DIR/run.json (scenario and options).
 
 ${FRAME_OPTIONS_HELP}`,
-  analyze: `Usage: domtopo analyze <frame.png...> [options]
+  analyze: `Usage: domtopo analyze <frames...> [options]
 
-Analyzes each PNG (8-bit grey; colour is reduced to Rec. 709 luma) as one frame, in the order
-given.
+Analyzes every frame of the inputs, in order: PNG files (8/16-bit grey, colour reduced to luma),
+APNG movies, multi-page TIFF stacks (8/16/32-bit, float), NumPy .npy arrays (2-D or frames x
+height x width), folders of such files (natural order: frame2 before frame10) and patterns.
 
 Options:
-  --out DIR             write DIR/frames.csv, DIR/domains.csv (with --domains) and DIR/run.json;
-                        without --out the per-frame table goes to standard output
+  --out DIR             write DIR/frames.csv, DIR/frames.ndjson, DIR/domains.csv (with
+                        --domains) and DIR/run.json (inputs with sizes and SHA-256, options,
+                        version, timings); without --out the per-frame table goes to stdout
   --domains             also write the per-domain table
+  --workers N           worker threads [the number of cores]
+  --resume              continue an interrupted run in DIR from its last checkpoint
+  --strict              stop at the first frame that fails (default: report it and go on)
+  --spectrum S          spectrum of the phase map (binary), of the samples (grey), or off [binary]
   --quiet               no progress and no summary
+  --json                print the run summary as JSON on stdout
   -h, --help            this help
+
+Field per frame (one of):
+  --field-table F --field-column NAME   a column of a CSV/TSV file (header row)
+  --fields a,b,c                        a list
+  --sweep start:stop:step[,...]         segments in sequence, e.g. -40:40:1,40:-40:1
+  --field-from-names REGEX              a capture group on the file names, e.g. "H=(-?[0-9.]+)mT"
+  --field-unit U                        unit of the field values (a table header "H (mT)" gives it)
+
+Exit codes: 0 every frame analyzed; 1 the run failed; 2 bad command line; 3 the run finished
+but some frames failed (they are listed in run.json and on stderr).
 
 ${FRAME_OPTIONS_HELP}`,
 };
@@ -233,55 +255,116 @@ async function runDemo(argv: string[]): Promise<number> {
   return EXIT.ok;
 }
 
+function fieldValues(values: Values, files: string[]): FieldValues | undefined {
+  const unit = values["field-unit"] as string | undefined;
+  const given = ["field-table", "fields", "sweep", "field-from-names"].filter((k) => values[k] !== undefined);
+  if (given.length > 1) throw new UsageError(`give the field one way, not ${given.map((g) => "--" + g).join(" and ")}`);
+  const frames = openFrameFiles(files).count;
+  if (values["field-table"] !== undefined) {
+    const file = values["field-table"] as string;
+    const column = values["field-column"] as string | undefined;
+    if (!column) throw new UsageError("--field-table needs --field-column NAME");
+    let text: string;
+    try { text = readFileSync(file, "utf8"); } catch (err) {
+      throw new Error(`${file}: cannot read (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+    }
+    return fieldsFromTable(text, column, { name: file, frames, ...(unit ? { unit } : {}) });
+  }
+  if (values.fields !== undefined) {
+    const list = (values.fields as string).split(",").map((t, i) => {
+      const v = Number(t);
+      if (t.trim() === "" || !Number.isFinite(v)) throw new UsageError(`--fields: value ${i} is ${JSON.stringify(t)}, not a number`);
+      return v;
+    });
+    return fieldsFromList(list, { unit: unit ?? "", frames, source: "--fields" });
+  }
+  if (values.sweep !== undefined) {
+    const segments = (values.sweep as string).split(",").map((seg) => {
+      const parts = seg.split(":").map(Number);
+      if (parts.length !== 3 || !parts.every(Number.isFinite)) {
+        throw new UsageError(`--sweep: expected start:stop:step segments separated by commas, got ${JSON.stringify(seg)}`);
+      }
+      return { start: parts[0]!, stop: parts[1]!, step: parts[2]! };
+    });
+    return fieldsFromSweep(segments, { unit: unit ?? "", frames });
+  }
+  if (values["field-from-names"] !== undefined) {
+    const names = files.length === frames ? files.map((f) => basename(f)) : undefined;
+    if (!names) throw new UsageError("--field-from-names needs one file per frame (not stacks)");
+    return fieldsFromNames(names, values["field-from-names"] as string, { unit: unit ?? "", frames });
+  }
+  return undefined;
+}
+
 async function runAnalyze(argv: string[]): Promise<number> {
   const { values, positionals } = parse("analyze", argv, {
-    out: { type: "string" }, domains: { type: "boolean" },
+    out: { type: "string" }, domains: { type: "boolean" }, workers: { type: "string" },
+    resume: { type: "boolean" }, strict: { type: "boolean" }, json: { type: "boolean" },
+    "field-table": { type: "string" }, "field-column": { type: "string" }, fields: { type: "string" },
+    sweep: { type: "string" }, "field-from-names": { type: "string" }, "field-unit": { type: "string" },
+    spectrum: { type: "string" },
   });
   if (values.help) { process.stdout.write(HELP.analyze + "\n"); return EXIT.ok; }
-  if (positionals.length === 0) throw new UsageError("analyze: expected at least one PNG file (see domtopo analyze --help)");
+  if (positionals.length === 0) throw new UsageError("analyze: expected at least one frame file, folder or pattern (see domtopo analyze --help)");
   const options = frameOptions(values, {});
-  const outDir = values.out as string | undefined;
+  const spectrum = values.spectrum as string | undefined;
+  if (spectrum !== undefined) {
+    if (spectrum !== "off" && spectrum !== "binary" && spectrum !== "grey") {
+      throw new UsageError(`--spectrum: expected off, binary or grey, got ${JSON.stringify(spectrum)}`);
+    }
+    options.spectrum = spectrum === "off" ? "off" : { signal: spectrum };
+  }
+  resolveFrameOptions(options); // option errors before any file is touched
   const quiet = Boolean(values.quiet);
-  const tables: Tables = {
-    frames: outDir ? new AtomicWriter(join(resolve(outDir), "frames.csv")) : undefined,
-    domains: outDir && values.domains ? new AtomicWriter(join(resolve(outDir), "domains.csv")) : undefined,
-    stdout: !outDir, headerDone: false,
-  };
-  if (values.domains && !outDir) throw new UsageError("--domains needs --out DIR");
-  const progress = new Progress(positionals.length, "analyze", process.stderr, !quiet);
-  let analyzer: FrameAnalyzer | undefined;
+  const files = listFrameFiles(positionals);
+  const fields = fieldValues(values, files);
+  const workers = number("workers", values.workers as string | undefined);
+  if (workers !== undefined && (!Number.isInteger(workers) || workers < 1)) {
+    throw new UsageError(`--workers: expected a whole number >= 1, got ${workers}`);
+  }
+  const outDir = values.out as string | undefined;
+  if (!outDir) {
+    for (const flag of ["domains", "resume", "workers"]) {
+      if (values[flag] !== undefined) throw new UsageError(`--${flag} needs --out DIR`);
+    }
+    return analyzeToStdout(files, options, fields, quiet);
+  }
+  const progress = new Progress(openFrameFiles(files).count, "analyze", process.stderr, !quiet);
+  const summary = await runAnalysis({
+    inputs: files, out: outDir, options: { frame: options, domains: Boolean(values.domains) }, fields,
+    workers, resume: Boolean(values.resume), strict: Boolean(values.strict),
+    onProgress: (d) => progress.tick(d),
+    onFrameError: (_i, _w, message) => { if (!quiet) process.stderr.write(`\ndomtopo: skipped ${message}\n`); },
+  });
+  progress.done();
+  if (values.json) process.stdout.write(JSON.stringify(summary) + "\n");
+  else if (!quiet) {
+    process.stderr.write(`Analyzed ${summary.analyzed} of ${summary.frames} frames in ${summary.seconds.toFixed(1)} s ` +
+      `(${summary.framesPerSecond.toFixed(1)} frames/s, ${summary.workers} worker${summary.workers === 1 ? "" : "s"})` +
+      `${summary.resumedAt ? `, resumed at frame ${summary.resumedAt}` : ""}; tables in ${resolve(outDir)}\n`);
+  }
+  return summary.failed.length > 0 ? EXIT.someFramesFailed : EXIT.ok;
+}
+
+async function analyzeToStdout(files: string[], options: FrameOptions, fields: FieldValues | undefined, quiet: boolean): Promise<number> {
+  const source = openFrameFiles(files);
+  const cache = new AnalyzerCache();
+  const progress = new Progress(source.count, "analyze", process.stderr, !quiet);
+  let header = false;
   try {
-    if (tables.domains) tables.domains.write(csvLine(["frame", "file", ...domainHeader(options.unit ?? (options.pixelSize ? "unit" : "px"))]));
-    for (let k = 0; k < positionals.length; k++) {
-      const file = positionals[k]!;
-      const where = `${file}: frame ${k}`;
-      let bytes: Uint8Array;
-      try { bytes = readFileSync(file); } catch (err) {
-        throw new Error(`${file}: cannot read (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
-      }
-      const frame = decodePngFrame(bytes, file);
-      if (!analyzer || analyzer.width !== frame.width || analyzer.height !== frame.height) {
-        analyzer?.dispose();
-        analyzer = createAnalyzer(frame.width, frame.height);
-      }
-      writeRow(tables, [["frame", k], ["file", basename(file)]], analyzer, frame, options, where);
+    for (let k = 0; k < source.count; k++) {
+      const where = source.describe(k);
+      const r = runFrameJob(cache, await source.read(k), k, where, { frame: options });
+      const lead: Array<[string, Cell]> = [["frame", k], ["source", where]];
+      if (fields) lead.push([`field${fields.unit ? "_" + fields.unit : ""}`, fields.values[k]!]);
+      const row = [...lead, ...r.row];
+      if (!header) { process.stdout.write(csvLine(row.map(([n]) => n))); header = true; }
+      process.stdout.write(csvLine(row.map(([, v]) => v)));
       progress.tick(k + 1);
     }
-    progress.done();
-    tables.frames?.commit();
-    tables.domains?.commit();
-  } catch (err) {
-    tables.frames?.abort();
-    tables.domains?.abort();
-    throw err;
   } finally {
-    analyzer?.dispose();
-  }
-  if (outDir) {
-    writeFileAtomic(join(resolve(outDir), "run.json"), JSON.stringify({
-      tool: "domtopo", version: VERSION, command: "analyze", inputs: positionals, options,
-    }, null, 2) + "\n");
-    if (!quiet) process.stderr.write(`Wrote ${positionals.length} rows to ${join(resolve(outDir), "frames.csv")}\n`);
+    cache.dispose();
+    progress.done();
   }
   return EXIT.ok;
 }

@@ -65,6 +65,7 @@ export async function* runOrdered<J, R>(
   let nextIndex = 0; // next job to take from the input
   let nextOut = 0; // next outcome to deliver
   let exhausted = false;
+  let closing = false;
   let wake: (() => void) | undefined;
   const notify = () => { const w = wake; wake = undefined; w?.(); };
 
@@ -87,6 +88,7 @@ export async function* runOrdered<J, R>(
         : { index: current.index, job: current.job, error: new Error(reply.message ?? "worker failed") });
     });
     w.onError((err) => {
+      if (closing || workers[slot] !== w) return; // terminated by us, or already replaced
       const current = busy.get(slot);
       void Promise.resolve(w.terminate()).catch(() => undefined);
       workers[slot] = undefined;
@@ -129,6 +131,7 @@ export async function* runOrdered<J, R>(
       await new Promise<void>((resolve) => { wake = resolve; });
     }
   } finally {
+    closing = true;
     await Promise.all(workers.map((w) => (w ? Promise.resolve(w.terminate()).catch(() => undefined) : undefined)));
   }
 }

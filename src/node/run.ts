@@ -1,0 +1,228 @@
+// `domtopo analyze` over a whole movie: frames read and analyzed by a pool of worker threads,
+// rows written in frame order as CSV and NDJSON, a JSON run record (inputs with sizes and content
+// hashes, options, version, timings), checkpoints so that `--resume` continues an interrupted run
+// without losing or duplicating rows, and failed frames reported by index and file.
+import { createHash } from "node:crypto";
+import { Worker } from "node:worker_threads";
+import { availableParallelism } from "node:os";
+import {
+  closeSync, existsSync, fstatSync, fsyncSync, ftruncateSync, mkdirSync, openSync, readFileSync,
+  readSync, renameSync, statSync, unlinkSync, writeSync,
+} from "node:fs";
+import { join, resolve } from "node:path";
+import { openFrameFiles, listFrameFiles } from "../io/node-source";
+import { runOrdered, inThreadWorker, type PoolWorker } from "../sequence/pool";
+import type { FrameJobOptions, FrameJobResult } from "../sequence/job";
+import { handleFileJob, type FileFrameJob } from "./worker";
+import { csvLine, domainHeader, type Cell } from "../topology/rows";
+import { writeFileAtomic } from "./atomic";
+import { VERSION } from "../version";
+import type { FieldValues } from "../io/fields";
+
+export interface RunConfig {
+  /** Frame files, folders or patterns (see listFrameFiles). */
+  inputs: string[];
+  out: string;
+  options: FrameJobOptions;
+  /** Field per frame (its count must match the frames). */
+  fields?: FieldValues;
+  /** Number of worker threads; 1 runs in this thread. @default available cores */
+  workers?: number;
+  /** Continue an interrupted run in `out`. @default false */
+  resume?: boolean;
+  /** A failed frame stops the run. @default false */
+  strict?: boolean;
+  /** Frames between checkpoints. @default 25 */
+  checkpointEvery?: number;
+  signal?: AbortSignal;
+  onProgress?: (done: number, total: number) => void;
+  onFrameError?: (index: number, where: string, message: string) => void;
+  /** Called in frame order with every analyzed frame (e.g. for tracking). */
+  onResult?: (result: FrameJobResult) => Array<[string, Cell]> | void;
+  /** Stop after this many frames (for tests of interrupted runs). */
+  stopAfter?: number;
+}
+
+export interface RunSummary {
+  frames: number;
+  analyzed: number;
+  failed: Array<{ frame: number; where: string; message: string }>;
+  seconds: number;
+  framesPerSecond: number;
+  workers: number;
+  resumedAt: number;
+  completed: boolean;
+}
+
+const OUTPUTS = ["frames.csv", "frames.ndjson", "domains.csv"] as const;
+type OutputName = (typeof OUTPUTS)[number];
+
+interface Checkpoint {
+  signature: string;
+  framesDone: number;
+  bytes: Record<string, number>;
+  failed: RunSummary["failed"];
+  headerDone: boolean;
+}
+
+/** SHA-256 of a file, read in 1 MiB blocks. */
+export function fileSha256(path: string): string {
+  const h = createHash("sha256");
+  const fd = openSync(path, "r");
+  try {
+    const buf = new Uint8Array(1 << 20);
+    for (;;) {
+      const n = readSync(fd, buf, 0, buf.length, null);
+      if (n === 0) break;
+      h.update(buf.subarray(0, n));
+    }
+  } finally {
+    closeSync(fd);
+  }
+  return h.digest("hex");
+}
+
+class PartialFile {
+  private fd: number;
+  constructor(readonly path: string, keepBytes: number | undefined) {
+    if (keepBytes === undefined) {
+      this.fd = openSync(path, "w");
+    } else {
+      this.fd = openSync(path, "r+");
+      const size = fstatSync(this.fd).size;
+      if (size < keepBytes) throw new Error(`${path}: shorter (${size} bytes) than its checkpoint (${keepBytes}); cannot resume`);
+      ftruncateSync(this.fd, keepBytes); // drop rows written after the last checkpoint
+    }
+  }
+  write(text: string): void { writeSync(this.fd, text, null); }
+  size(): number { return fstatSync(this.fd).size; }
+  sync(): void { fsyncSync(this.fd); }
+  close(): void { closeSync(this.fd); }
+}
+
+function workerThread(): PoolWorker {
+  const w = new Worker(new URL("./worker.js", import.meta.url), { workerData: { domtopoWorker: true } });
+  let stopping = false;
+  return {
+    post: (m, t) => w.postMessage(m, t as never),
+    onMessage: (h) => { w.on("message", h); },
+    onError: (h) => {
+      w.on("error", h);
+      w.on("exit", (code) => { if (!stopping && code !== 0) h(new Error(`worker thread exited with code ${code}`)); });
+    },
+    terminate: () => { stopping = true; return w.terminate(); },
+  };
+}
+
+/** Runs the analysis of a movie into `config.out`. */
+export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
+  const started = performance.now();
+  const files = listFrameFiles(config.inputs);
+  const source = openFrameFiles(files);
+  const total = source.count;
+  if (config.fields && config.fields.values.length !== total) {
+    throw new Error(`expected ${total} field values for ${total} frames, got ${config.fields.values.length} from ${config.fields.source}`);
+  }
+  const out = resolve(config.out);
+  mkdirSync(out, { recursive: true });
+  const inputs = files.map((path) => ({ path: resolve(path), bytes: statSync(path).size, sha256: fileSha256(path) }));
+  const signature = createHash("sha256").update(JSON.stringify({
+    version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: config.options,
+    fields: config.fields ? Array.from(config.fields.values) : null,
+  })).digest("hex");
+  const progressPath = join(out, "run.progress.json");
+  let checkpoint: Checkpoint | undefined;
+  if (config.resume && existsSync(progressPath)) {
+    checkpoint = JSON.parse(readFileSync(progressPath, "utf8")) as Checkpoint;
+    if (checkpoint.signature !== signature) {
+      throw new Error(`${progressPath}: the interrupted run had other inputs, options or version; cannot resume (start again without --resume)`);
+    }
+  } else if (config.resume) {
+    throw new Error(`${out}: no interrupted run to resume (no run.progress.json)`);
+  }
+  const wanted: OutputName[] = config.options.domains ? [...OUTPUTS] : ["frames.csv", "frames.ndjson"];
+  const files_: Partial<Record<OutputName, PartialFile>> = {};
+  for (const name of wanted) {
+    files_[name] = new PartialFile(join(out, `${name}.partial`), checkpoint ? checkpoint.bytes[name] ?? 0 : undefined);
+  }
+  const failed: RunSummary["failed"] = checkpoint ? [...checkpoint.failed] : [];
+  let headerDone = checkpoint?.headerDone ?? false;
+  const startAt = checkpoint?.framesDone ?? 0;
+  let done = startAt;
+  const fieldUnit = config.fields?.unit || "";
+  const fieldName = config.fields ? `field${fieldUnit ? "_" + fieldUnit.replace(/[^A-Za-z0-9µ]+/g, "") : ""}` : undefined;
+  if (!checkpoint && files_["domains.csv"]) {
+    const lead = ["frame", "source", ...(fieldName ? [fieldName] : [])];
+    files_["domains.csv"].write(csvLine([...lead, ...domainHeader(config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px"))]));
+  }
+
+  const saveCheckpoint = () => {
+    const bytes: Record<string, number> = {};
+    for (const name of wanted) { files_[name]!.sync(); bytes[name] = files_[name]!.size(); }
+    const cp: Checkpoint = { signature, framesDone: done, bytes, failed, headerDone };
+    writeFileAtomic(progressPath, JSON.stringify(cp) + "\n");
+  };
+
+  const workers = Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, total - startAt)));
+  const end = config.stopAfter !== undefined ? Math.min(total, startAt + config.stopAfter) : total;
+  function* jobs(): Generator<FileFrameJob> {
+    for (let index = startAt; index < end; index++) yield { files, index, options: config.options };
+  }
+  const spawn = workers === 1 ? () => inThreadWorker(handleFileJob) : workerThread;
+  const every = config.checkpointEvery ?? 25;
+  let sinceCheckpoint = 0;
+  try {
+    for await (const o of runOrdered<FileFrameJob, FrameJobResult>(jobs(), spawn, { workers, signal: config.signal })) {
+      const index = o.job.index;
+      if (o.error) {
+        const where = source.describe(index);
+        const message = o.error.message.startsWith(where) || o.error.message.includes(files[0]!.split("/").pop()!)
+          ? o.error.message : `${where}: ${o.error.message}`;
+        failed.push({ frame: index, where, message });
+        config.onFrameError?.(index, where, message);
+        if (config.strict) throw new Error(`frame ${index} (${where}) failed: ${o.error.message}`);
+      } else {
+        const r = o.result!;
+        const lead: Array<[string, Cell]> = [["frame", index], ["source", r.where]];
+        if (fieldName) lead.push([fieldName, config.fields!.values[index]!]);
+        const extra = config.onResult?.(r) ?? [];
+        const row = [...lead, ...r.row, ...extra];
+        if (!headerDone) { files_["frames.csv"]!.write(csvLine(row.map(([k]) => k))); headerDone = true; }
+        files_["frames.csv"]!.write(csvLine(row.map(([, v]) => v)));
+        files_["frames.ndjson"]!.write(JSON.stringify(Object.fromEntries(row.map(([k, v]) =>
+          [k, typeof v === "number" && !Number.isFinite(v) ? null : v]))) + "\n");
+        if (files_["domains.csv"] && r.domainRows) {
+          const leadCells = lead.map(([, v]) => v);
+          let text = "";
+          for (const d of r.domainRows) text += csvLine([...leadCells, ...d]);
+          files_["domains.csv"].write(text);
+        }
+      }
+      done = index + 1;
+      config.onProgress?.(done, total);
+      if (++sinceCheckpoint >= every) { saveCheckpoint(); sinceCheckpoint = 0; }
+    }
+    saveCheckpoint();
+  } finally {
+    for (const name of wanted) files_[name]!.close();
+  }
+  const completed = done === total;
+  const seconds = (performance.now() - started) / 1000;
+  const analyzed = done - startAt - failed.filter((f) => f.frame >= startAt).length;
+  const summary: RunSummary = {
+    frames: total, analyzed, failed, seconds, framesPerSecond: (done - startAt) / Math.max(seconds, 1e-9),
+    workers, resumedAt: startAt, completed,
+  };
+  if (completed) {
+    for (const name of wanted) renameSync(join(out, `${name}.partial`), join(out, name));
+    writeFileAtomic(join(out, "run.json"), JSON.stringify({
+      tool: "domtopo", version: VERSION, command: "analyze", finished: new Date().toISOString(),
+      inputs, frames: total, options: config.options,
+      field: config.fields ? { unit: config.fields.unit, source: config.fields.source } : null,
+      outputs: wanted, failures: failed,
+      timings: { seconds, framesPerSecond: summary.framesPerSecond, workers, resumedAtFrame: startAt },
+    }, null, 2) + "\n");
+    unlinkSync(progressPath);
+  }
+  return summary;
+}

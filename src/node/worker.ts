@@ -1,0 +1,38 @@
+// worker_threads entry for `domtopo analyze --workers N`: reads its frames itself (so decoding
+// runs in parallel too), analyzes them and posts the rows back, moving the label buffers.
+import { parentPort, workerData } from "node:worker_threads";
+import { openFrameFiles } from "../io/node-source";
+import type { FrameSource } from "../io/source";
+import { AnalyzerCache, runFrameJob, transferablesOf, type FrameJobOptions } from "../sequence/job";
+
+export interface FileFrameJob {
+  files: string[];
+  index: number;
+  options: FrameJobOptions;
+}
+
+const cache = new AnalyzerCache();
+let source: FrameSource | undefined;
+let sourceKey = "";
+
+export async function handleFileJob(job: FileFrameJob) {
+  const key = job.files.join("\n");
+  if (!source || key !== sourceKey) {
+    source = openFrameFiles(job.files);
+    sourceKey = key;
+  }
+  const where = source.describe(job.index);
+  const frame = await source.read(job.index);
+  return runFrameJob(cache, frame, job.index, where, job.options);
+}
+
+// Only in threads started by the pool (workerData marks them), never in a host's own workers.
+if (parentPort && (workerData as { domtopoWorker?: boolean } | null)?.domtopoWorker) {
+  const port = parentPort;
+  port.on("message", (message: { id: number; job: FileFrameJob }) => {
+    handleFileJob(message.job).then(
+      (result) => port.postMessage({ id: message.id, ok: true, result }, transferablesOf(result)),
+      (err: Error) => port.postMessage({ id: message.id, ok: false, message: err?.message ?? String(err) }),
+    );
+  });
+}

@@ -1,0 +1,74 @@
+// One frame of a sequence as a job: analyze it and return the rows the tables need. The same
+// function runs in a worker thread, a Web Worker, or in the calling thread.
+import type { Frame } from "../types";
+import { FrameAnalyzer } from "../topology/analyze";
+import type { FrameOptions } from "../topology/options";
+import { frameRow, domainRows, type Cell } from "../topology/rows";
+
+export interface FrameJobOptions {
+  frame: FrameOptions;
+  /** Return the per-domain rows. @default false */
+  domains?: boolean;
+  /** Return the label image and the columns that tracking needs (transferable). @default false */
+  tracking?: boolean;
+}
+
+export interface TrackingInput {
+  labels: Int32Array;
+  count: number;
+  phase: Uint8Array;
+  area: Float64Array;
+  centroidX: Float64Array;
+  centroidY: Float64Array;
+}
+
+export interface FrameJobResult {
+  index: number;
+  where: string;
+  width: number;
+  height: number;
+  row: Array<[string, Cell]>;
+  domainRows?: Cell[][];
+  tracking?: TrackingInput;
+}
+
+/** Keeps one analyzer per frame shape for the life of a thread. */
+export class AnalyzerCache {
+  private analyzer: FrameAnalyzer | undefined;
+
+  get(width: number, height: number): FrameAnalyzer {
+    if (!this.analyzer || this.analyzer.width !== width || this.analyzer.height !== height) {
+      this.analyzer?.dispose();
+      this.analyzer = new FrameAnalyzer(width, height);
+    }
+    return this.analyzer;
+  }
+
+  dispose(): void {
+    this.analyzer?.dispose();
+    this.analyzer = undefined;
+  }
+}
+
+export function runFrameJob(
+  cache: AnalyzerCache, frame: Frame, index: number, where: string, options: FrameJobOptions,
+): FrameJobResult {
+  const analyzer = cache.get(frame.width, frame.height);
+  const r = analyzer.analyze(frame, { ...options.frame, keepLabels: Boolean(options.tracking) }, where);
+  const out: FrameJobResult = { index, where, width: frame.width, height: frame.height, row: frameRow(r) };
+  if (options.domains) out.domainRows = domainRows(r);
+  if (options.tracking) {
+    const d = r.domains;
+    out.tracking = {
+      labels: r.labels!, count: d.count, phase: d.phase, area: d.area, centroidX: d.centroidX, centroidY: d.centroidY,
+    };
+  }
+  return out;
+}
+
+/** The buffers of a result that can be moved rather than copied between threads. */
+export function transferablesOf(result: FrameJobResult): ArrayBuffer[] {
+  const t = result.tracking;
+  if (!t) return [];
+  return [t.labels.buffer, t.phase.buffer, t.area.buffer, t.centroidX.buffer, t.centroidY.buffer] as ArrayBuffer[];
+}
