@@ -36,6 +36,13 @@ function memoryReport(): void {
     `(createAnalyzer(${n}, ${n}).memoryBytes()), module memory ${mb(wasmMemoryBytes())} ` +
     `(WebAssembly.Memory buffer; ${mb(before)} before the workspace). Target: within 100 MB.`);
   analyzer.dispose();
+  // The workspace grows its domain columns with the number of provisional labels: noise is the worst case.
+  for (const pattern of ["bubble", "noise"] as const) {
+    const a = createAnalyzer(n, n);
+    const domains = a.analyze({ width: n, height: n, data: patternFrame(pattern, n, 1) }, OPTIONS).domains.count;
+    console.log(`  ${n} x ${n} ${pattern} (${domains} domains): workspace ${mb(a.memoryBytes())}, module memory now ${mb(wasmMemoryBytes())}`);
+    a.dispose();
+  }
 
   // 1,000 frames through one 512 x 512 workspace: mazes, bubbles and noise of 12 seeds in turn.
   const m = 512;
