@@ -5,7 +5,7 @@
 //    domain's Euler number from its own quad patterns, and the phase changes along the four grid
 //    directions that the Crofton wall-length estimate needs (Ohser & Muecklich 2000).
 import {
-  W, H, PX, PY, RULE, PA, QM,
+  W, H, PX, PY, RULE, PH, PA, QM, LB,
   phaseAt, labelAt, setLabel, ldi, sti, ldf, stf,
 } from "./common";
 
@@ -143,9 +143,14 @@ export function measureRuns(K: i32, periodic: bool): void {
     const row = y * w;
     let x = 0;
     while (x < w) {
+      // One run: pixels of the same component; provisional labels are rewritten as we go, four
+      // at a time while they repeat (SIMD), one at a time where they change.
       let lp = labelAt(row + x);
       const c = ldi(PA, lp);
+      const d = periodic ? ldi(C_FIN, c) : c;
+      const vd = i32x4.splat(d);
       const x0 = x;
+      setLabel(row + x, d);
       x++;
       while (x < w) {
         const lq = labelAt(row + x);
@@ -153,10 +158,15 @@ export function measureRuns(K: i32, periodic: bool): void {
           if (ldi(PA, lq) != c) break;
           lp = lq;
         }
-        x++;
+        const at = LB + (<usize>(row + x) << 2);
+        if (x + 4 <= w && v128.all_true<i32>(i32x4.eq(v128.load(at), i32x4.splat(lp)))) {
+          v128.store(at, vd);
+          x += 4;
+        } else {
+          store<i32>(at, d);
+          x++;
+        }
       }
-      const d = periodic ? ldi(C_FIN, c) : c;
-      for (let j = row + x0, e = row + x; j < e; j++) setLabel(j, d);
       addRun(d, c, x0, x - 1, y, periodic);
     }
   }
@@ -173,15 +183,31 @@ export function measureQuads(): void {
   for (let k = 0; k < 5; k++) sti(BORDER, k, 0);
   const qh = PY ? h : h - 1;
   const qw = PX ? w : w - 1;
+  let down = 0, up = 0; // uniform quads (codes 0 and 15), the bulk of any frame
   for (let y = 0; y < qh; y++) {
     const r0 = y * w;
     const r1 = (y + 1 == h ? 0 : y + 1) * w;
+    let uniform = true; // whether the previous quad was uniform
     for (let x = 0; x < qw; x++) {
+      // Inside uniform stretches take eight quads at once: pixels x..x+8 of both rows are equal
+      // when the 8-byte words at x and x + 1 of both rows are one and the same word of 0s or 1s.
+      if (uniform && x + 9 <= w) {
+        const p0 = PH + <usize>(r0 + x), p1 = PH + <usize>(r1 + x);
+        const word = load<u64>(p0);
+        if ((word == 0 || word == 0x0101010101010101) && word == load<u64>(p0, 1) &&
+          word == load<u64>(p1) && word == load<u64>(p1, 1)) {
+          if (word == 0) down += 8; else up += 8;
+          x += 7;
+          continue;
+        }
+      }
       const x1 = x + 1 == w ? 0 : x + 1;
       const pa = phaseAt(r0 + x), pb = phaseAt(r0 + x1);
       const pc = phaseAt(r1 + x), pd = phaseAt(r1 + x1);
       let code = pa | (pb << 1) | (pc << 2) | (pd << 3);
-      if (code == 0 || code == 15) { bump(HIST, code, 1); continue; }
+      uniform = code == 0 || code == 15;
+      if (code == 0) { down++; continue; }
+      if (code == 15) { up++; continue; }
       const la = labelAt(r0 + x), lb = labelAt(r0 + x1);
       const lc = labelAt(r1 + x), ld = labelAt(r1 + x1);
       if (pa != pb) { bump(D_N0, la, 1); bump(D_N0, lb, 1); }
@@ -217,6 +243,8 @@ export function measureQuads(): void {
       bump(D_EULER4, lm, -1);
     }
   }
+  sti(HIST, 0, down);
+  sti(HIST, 15, up);
   // Open sides: the zero-padding quads hold two (or one, at corners) pixels of the frame.
   if (!PY) {
     const pairs = PX ? w : w - 1;
