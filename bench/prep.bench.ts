@@ -51,7 +51,7 @@ for (const n of [512, 1024]) {
   suite.add("high-pass sigma 50 (preprocessor)", () => highpass.process(frame), { maxTime });
   suite.add("high-pass sigma 50 + smooth 1.5 (preprocessor)", () => both.process(frame), { maxTime });
   suite.on("cycle", (e: Benchmark.Event) => {
-    const b = e.target as Benchmark;
+    const b = e.target as unknown as Benchmark;
     rows.push({ size: n, name: b.name!, ms: medianMs(b) });
   });
   suite.run();
