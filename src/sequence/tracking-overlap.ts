@@ -22,14 +22,15 @@ export class OverlapCounter {
 
   /**
    * Counts same-phase overlaps of `prev` (ids 1..prevPhase.length - 1) and `cur` (ids 1..curCount).
-   * `prevPhase[id]` / `curPhase[id]` hold each label's phase (index 0 unused). Throws if `cur`
+   * `prevPhase[id]` / `curPhase[id]` hold each label's phase (index 0 unused). The table starts
+   * at four slots per `sizeHint` pair and doubles when half full. Throws if `cur`
    * holds a label outside 0..curCount; label 0 overlaps nothing.
    */
   count(
     prev: Int32Array, cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
-    prevCount: number, curCount: number, where: string,
+    prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
   ): number {
-    this.reset(prevCount + curCount);
+    this.reset(sizeHint);
     const n = cur.length;
     let runPrev = 0, runCur = 0, run = 0;
     for (let i = 0; i < n; i++) {
@@ -53,6 +54,11 @@ export class OverlapCounter {
     }
     this.collect();
     return this.pairs;
+  }
+
+  /** Slots in the table (a power of two, at least twice the pairs of the last count). */
+  capacity(): number {
+    return this.keyPrev.length;
   }
 
   private reset(expected: number): void {
