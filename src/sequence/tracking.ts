@@ -417,7 +417,7 @@ export class DomainTracker {
     ov.count(this.prevLabels, labels, prevPhase, curPhase, Kp, K, where);
 
     // Links: overlap pairs with at least minOverlap pixels.
-    let linkPrev: number[] = [], linkCur: number[] = [], linkPixels: number[] = [];
+    const linkPrev: number[] = [], linkCur: number[] = [], linkPixels: number[] = [];
     const minOverlap = this.options.minOverlap;
     for (let e = 0; e < ov.pairs; e++) {
       if (ov.pairPixels[e]! < minOverlap) continue;
@@ -516,7 +516,6 @@ export class DomainTracker {
     for (const [b, from] of [...byCur].sort((p, q) => p[0] - q[0])) {
       events.merges.push({ phase: curPhase[b] === 1 ? "up" : "down", trackId: curTrack[b]!, from: from.sort((p, q) => p - q) });
     }
-    linkPrev = linkCur = linkPixels = [];
   }
 
   /** One row per track opened so far, in track-id order. */

@@ -174,15 +174,15 @@ describe("links across periodic sides and by distance", () => {
     expect(open.tracks.filter((t) => t.phase === "up").length).toBeGreaterThan(1);
   });
 
-  it("links the nearest pair first when two fast bubbles could take the same partner", () => {
-    // Previous bubbles at x = 10 and x = 30; current ones at x = 16 and x = 23 (no overlaps):
-    // 16 is 6 from 10, 23 is 7 from 30; the cross pairs (13 and 14 px) are too far for 10 px.
-    const prev = disc(disc(canvas(40, 20), 10, 10, 1.5), 30, 10, 1.5);
-    const cur = disc(disc(canvas(40, 20), 16, 10, 1.5), 23, 10, 1.5);
+  it("gives a fast bubble's id to the nearer of two candidates and counts the other as nucleated", () => {
+    // One bubble at x = 20; next frame bubbles at x = 12 (8 px away, first in raster order) and
+    // x = 26 (6 px away), none overlapping it. Both are within 10 px: the nearer one continues.
+    const prev = disc(canvas(40, 20), 20, 10, 1.5);
+    const cur = disc(disc(canvas(40, 20), 12, 10, 1.5), 26, 10, 1.5);
     const m = trackMovie([prev, cur], {}, { maxDisplacement: 10 });
-    expect(m.events[1]!.up).toMatchObject({ linkedByDistance: 2, continued: 2, nucleated: 0 });
-    expect(trackAt(m, 1, 16, 10)).toBe(trackAt(m, 0, 10, 10));
-    expect(trackAt(m, 1, 23, 10)).toBe(trackAt(m, 0, 30, 10));
+    expect(m.events[1]!.up).toMatchObject({ linkedByDistance: 1, continued: 1, nucleated: 1, annihilated: 0 });
+    expect(trackAt(m, 1, 26, 10)).toBe(trackAt(m, 0, 20, 10));
+    expect(m.tracks[trackAt(m, 1, 12, 10) - 1]).toMatchObject({ bornBy: "nucleated", birthFrame: 1 });
   });
 });
 
