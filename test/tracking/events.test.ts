@@ -72,15 +72,24 @@ describe("merging and splitting", () => {
 
   it("gives the merged domain the id of the larger disc and ends the smaller one's track as merged", () => {
     const m = trackMovie(approaching(13));
-    const first = m.events[0]!;
-    const areaOf = (id: number) => m.tracks[id - 1]!.maxArea;
-    const [a, b] = [...first.trackIds].filter((t) => m.tracks[t - 1]!.phase === "up")
-      .sort((p, q) => areaOf(q) - areaOf(p));
+    const a = trackAt(m, 0, 16, 16), b = trackAt(m, 0, 44, 16); // radius 6 and radius 4
     const merged = onlyTrack(m.events[9]!, m, 9, "up");
     expect(merged).toBe(a);
     expect(m.events[9]!.merges).toEqual([{ phase: "up", trackId: a, from: [a!, b!].sort((p, q) => p - q) }]);
     expect(m.tracks[b! - 1]).toMatchObject({ endedBy: "merged", endFrame: 8, goneFrame: 9, lifetime: 9 });
     expect(m.tracks[a! - 1]).toMatchObject({ endedBy: "still-present", lifetime: 13 });
+  });
+
+  it("keeps the id of the larger predecessor even when a smaller one shares more pixels with the merger", () => {
+    // A disc of radius 8 jumps 13 px onto a still disc of radius 4: the large disc shares only
+    // its lens (about 19 px) with the merged domain, the small one all of its ~49 px.
+    const prev = disc(disc(canvas(W, H), 20, 16, 8), 40, 16, 4);
+    const cur = disc(disc(canvas(W, H), 33, 16, 8), 40, 16, 4);
+    const m = trackMovie([prev, cur]);
+    expect(m.counts.map((c) => c.up)).toEqual([2, 1]);
+    expect(m.events[1]!.up).toMatchObject({ merged: 1, mergedPredecessors: 2 });
+    expect(trackAt(m, 1, 33, 16)).toBe(trackAt(m, 0, 20, 16));
+    expect(m.tracks[trackAt(m, 0, 40, 16) - 1]).toMatchObject({ endedBy: "merged", goneFrame: 1 });
   });
 
   it("counts an elongated domain pinching into two as one split into two pieces", () => {
