@@ -1,0 +1,143 @@
+// Overlap counting between two label images of one shape: for every pixel whose label in the
+// previous frame and label in the current frame belong to the same phase, count one towards the
+// pair (prev, cur). One pass over the pixels; runs of equal pairs along a row (the common case:
+// a domain that stays put) are summed before they touch the table, so the table sees one update
+// per run. The table is open addressing with linear probing over two Int32Array key columns
+// (the pair itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
+// Browser-safe: no node:* imports.
+
+const EMPTY = 0; // previous labels are >= 1 in every stored key
+
+export class OverlapCounter {
+  private keyPrev = new Int32Array(0);
+  private keyCur = new Int32Array(0);
+  private value = new Int32Array(0);
+  private mask = -1;
+  private used = 0;
+  /** The pairs found by the last `count`: previous label, current label, shared pixels. */
+  pairPrev = new Int32Array(64);
+  pairCur = new Int32Array(64);
+  pairPixels = new Int32Array(64);
+  pairs = 0;
+
+  /**
+   * Counts same-phase overlaps of `prev` (ids 1..prevPhase.length - 1) and `cur` (ids 1..curCount).
+   * `prevPhase[id]` / `curPhase[id]` hold each label's phase (index 0 unused). The table starts
+   * at four slots per `sizeHint` pair and doubles when half full. Throws if `cur`
+   * holds a label outside 0..curCount; label 0 overlaps nothing.
+   */
+  count(
+    prev: Int32Array, cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
+    prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
+  ): number {
+    this.reset(sizeHint);
+    const n = cur.length;
+    let runPrev = 0, runCur = 0, run = 0;
+    for (let i = 0; i < n; i++) {
+      const a = prev[i]!, b = cur[i]!;
+      if (a === runPrev && b === runCur) {
+        run++;
+        continue;
+      }
+      if (run > 0 && runPrev > 0 && runCur > 0 && prevPhase[runPrev] === curPhase[runCur]) {
+        this.add(runPrev, runCur, run);
+      }
+      if (b !== runCur && (b < 0 || b > curCount)) {
+        throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${b} at pixel ${i}`);
+      }
+      runPrev = a;
+      runCur = b;
+      run = 1;
+    }
+    if (run > 0 && runPrev > 0 && runCur > 0 && prevPhase[runPrev] === curPhase[runCur]) {
+      this.add(runPrev, runCur, run);
+    }
+    this.collect();
+    return this.pairs;
+  }
+
+  /** Slots in the table (a power of two, at least twice the pairs of the last count). */
+  capacity(): number {
+    return this.keyPrev.length;
+  }
+
+  private reset(expected: number): void {
+    // Capacity: a power of two at least four times the expected number of pairs.
+    let cap = 64;
+    while (cap < 4 * expected) cap *= 2;
+    if (this.keyPrev.length < cap) {
+      this.keyPrev = new Int32Array(cap);
+      this.keyCur = new Int32Array(cap);
+      this.value = new Int32Array(cap);
+    } else {
+      this.keyPrev.fill(EMPTY);
+    }
+    this.mask = this.keyPrev.length - 1;
+    this.used = 0;
+  }
+
+  private slot(a: number, b: number): number {
+    // Multiplicative mixing of both labels (golden-ratio and murmur3 constants), then fold.
+    let h = Math.imul(a, 0x9e3779b1) ^ Math.imul(b, 0x85ebca77);
+    h ^= h >>> 15;
+    return h & this.mask;
+  }
+
+  private add(a: number, b: number, n: number): void {
+    const kp = this.keyPrev, kc = this.keyCur, mask = this.mask;
+    let s = this.slot(a, b);
+    for (;;) {
+      const k = kp[s]!;
+      if (k === EMPTY) {
+        kp[s] = a;
+        kc[s] = b;
+        this.value[s] = n;
+        if (++this.used * 2 > kp.length) this.grow();
+        return;
+      }
+      if (k === a && kc[s] === b) {
+        this.value[s]! += n;
+        return;
+      }
+      s = (s + 1) & mask;
+    }
+  }
+
+  private grow(): void {
+    const oldP = this.keyPrev, oldC = this.keyCur, oldV = this.value;
+    const cap = oldP.length * 2;
+    this.keyPrev = new Int32Array(cap);
+    this.keyCur = new Int32Array(cap);
+    this.value = new Int32Array(cap);
+    this.mask = cap - 1;
+    for (let s = 0; s < oldP.length; s++) {
+      const a = oldP[s]!;
+      if (a === EMPTY) continue;
+      let t = this.slot(a, oldC[s]!);
+      while (this.keyPrev[t] !== EMPTY) t = (t + 1) & this.mask;
+      this.keyPrev[t] = a;
+      this.keyCur[t] = oldC[s]!;
+      this.value[t] = oldV[s]!;
+    }
+  }
+
+  private collect(): void {
+    if (this.pairPrev.length < this.used) {
+      let cap = this.pairPrev.length;
+      while (cap < this.used) cap *= 2;
+      this.pairPrev = new Int32Array(cap);
+      this.pairCur = new Int32Array(cap);
+      this.pairPixels = new Int32Array(cap);
+    }
+    let e = 0;
+    const kp = this.keyPrev;
+    for (let s = 0; s < kp.length; s++) {
+      if (kp[s] === EMPTY) continue;
+      this.pairPrev[e] = kp[s]!;
+      this.pairCur[e] = this.keyCur[s]!;
+      this.pairPixels[e] = this.value[s]!;
+      e++;
+    }
+    this.pairs = e;
+  }
+}

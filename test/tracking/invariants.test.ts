@@ -1,0 +1,152 @@
+import { describe, it, expect } from "vitest";
+import { gaussianRandomField } from "../../src/demo/grf";
+import type { Boundary } from "../../src/topology/options";
+import { OverlapCounter } from "../../src/sequence/tracking-overlap";
+import { trackMovie, type Canvas, type Movie } from "./movie";
+import { shift, randomFrame } from "../helpers/grid";
+
+/** A maze thresholded at slowly rising levels: domains shrink, split, vanish and merge. */
+function risingLevels(seed: number, size: number, levels: number[], period = 10): Canvas[] {
+  const f = gaussianRandomField({ width: size, height: size, period, seed });
+  return levels.map((u) => ({ width: size, height: size, data: f.data.map((v) => (v > u ? 1 : 0)) as unknown as Uint8Array }))
+    .map((c) => ({ ...c, data: Uint8Array.from(c.data) }));
+}
+
+const levels = Array.from({ length: 12 }, (_, k) => -0.9 + 0.15 * k);
+
+function eventCounts(m: Movie) {
+  return m.events.map((e) => [e.up, e.down].map((p) => ({ ...p })));
+}
+
+describe("bookkeeping of events", () => {
+  const cases: Array<[string, Boundary, 8 | 4, number]> = [
+    ["open frames, overlap only", "open", 8, 0],
+    ["periodic frames, overlap only", "periodic", 8, 0],
+    ["periodic frames, up 4-connected, with a 6 px fallback", "periodic", 4, 6],
+    ["open frames with a 6 px fallback", "open", 8, 6],
+  ];
+  for (const [name, boundary, connectivity, maxDisplacement] of cases) {
+    it(`balances domains = previous + nucleated - annihilated + (pieces - splits) - (predecessors - merges) per phase on ${name}`, () => {
+      for (const seed of [1, 2, 3]) {
+        const m = trackMovie(risingLevels(seed, 64, levels), { boundary, connectivity }, { maxDisplacement });
+        let events = 0;
+        m.events.slice(1).forEach((e, i) => {
+          for (const [p, phase] of [[e.up, "up"], [e.down, "down"]] as const) {
+            expect(p.domains).toBe(m.counts[i + 1]![phase]);
+            expect(p.previousDomains).toBe(m.counts[i]![phase]);
+            // Links E: every current domain has in-degree 0 (nucleated), 1, or >= 2 (merged), so
+            // domains = nucleated + E - (predecessors - merges); likewise previous domains =
+            // annihilated + E - (pieces - splits). Subtracting removes E.
+            expect(p.domains).toBe(p.previousDomains + p.nucleated - p.annihilated +
+              (p.splitPieces - p.split) - (p.mergedPredecessors - p.merged));
+            expect(p.splitPieces).toBeGreaterThanOrEqual(2 * p.split);
+            expect(p.mergedPredecessors).toBeGreaterThanOrEqual(2 * p.merged);
+            expect(p.continued).toBeLessThanOrEqual(Math.min(p.domains, p.previousDomains));
+            events += p.nucleated + p.annihilated + p.split + p.merged;
+          }
+        });
+        expect(events).toBeGreaterThan(10); // the movie does exercise every kind of event
+      }
+    });
+  }
+
+  it("gives every domain of a frame its own track and every track one row per frame it lived", () => {
+    const m = trackMovie(risingLevels(4, 64, levels), { boundary: "periodic" }, { maxDisplacement: 4 });
+    let present = 0;
+    for (const e of m.events) {
+      expect(new Set(e.trackIds).size).toBe(e.trackIds.length);
+      present += e.trackIds.length;
+    }
+    expect(m.tracks.reduce((s, t) => s + t.lifetime, 0)).toBe(present);
+    const last = m.events.at(-1)!;
+    expect(m.tracks.filter((t) => t.endedBy === "still-present").map((t) => t.trackId).sort((a, b) => a - b))
+      .toEqual([...last.trackIds].sort((a, b) => a - b));
+    // Tracks opened = first frame + nucleated + split pieces that did not take an id.
+    const opened = m.events.slice(1).reduce((s, e) => s + e.up.nucleated + e.down.nucleated, m.events[0]!.trackIds.length);
+    const fromSplits = m.tracks.filter((t) => t.bornBy === "split").length;
+    expect(m.tracks.length).toBe(opened + fromSplits);
+    // Ended tracks: annihilated ones match the annihilation counts; the rest ended in a merge.
+    const annihilated = m.events.reduce((s, e) => s + e.up.annihilated + e.down.annihilated, 0);
+    expect(m.tracks.filter((t) => t.endedBy === "annihilated")).toHaveLength(annihilated);
+    for (const t of m.tracks) {
+      if (t.endedBy === "still-present") continue;
+      expect(t.goneFrame).toBe(t.endFrame + 1);
+      expect(t.lifetime).toBe(t.endFrame - t.birthFrame + 1);
+    }
+  });
+
+  it("counts the same events when both frames are shifted cyclically together on a torus", () => {
+    const frames = risingLevels(5, 64, levels);
+    const base = eventCounts(trackMovie(frames, { boundary: "periodic" }, { maxDisplacement: 5 }));
+    for (const [dx, dy] of [[17, 0], [0, 29], [40, 51]] as const) {
+      const moved = frames.map((f) => shift(f, dx, dy));
+      expect(eventCounts(trackMovie(moved, { boundary: "periodic" }, { maxDisplacement: 5 }))).toEqual(base);
+    }
+  });
+
+  it("finds the events of a reversed movie mirrored: nucleations become annihilations, splits merges", () => {
+    const frames = risingLevels(6, 64, levels);
+    const fwd = trackMovie(frames, { boundary: "periodic" });
+    const back = trackMovie([...frames].reverse(), { boundary: "periodic" });
+    const n = frames.length;
+    for (let k = 1; k < n; k++) {
+      const f = fwd.events[k]!, b = back.events[n - k]!;
+      for (const p of ["up", "down"] as const) {
+        expect(b[p].annihilated).toBe(f[p].nucleated);
+        expect(b[p].nucleated).toBe(f[p].annihilated);
+        expect(b[p].merged).toBe(f[p].split);
+        expect(b[p].mergedPredecessors).toBe(f[p].splitPieces);
+        expect(b[p].split).toBe(f[p].merged);
+        expect(b[p].continued).toBe(f[p].continued);
+      }
+    }
+  });
+});
+
+describe("overlap counting", () => {
+  function plainCount(prev: Int32Array, cur: Int32Array, pp: Uint8Array, cp: Uint8Array) {
+    const m = new Map<string, number>();
+    for (let i = 0; i < cur.length; i++) {
+      const a = prev[i]!, b = cur[i]!;
+      if (a === 0 || b === 0 || pp[a] !== cp[b]) continue;
+      const k = `${a},${b}`;
+      m.set(k, (m.get(k) ?? 0) + 1);
+    }
+    return [...m].sort();
+  }
+
+  it("agrees with a plain per-pixel count on seeded noise with thousands of label pairs", () => {
+    for (const seed of [11, 12, 13]) {
+      // Unsmoothed noise: many small domains and thousands of pairs.
+      const m = trackMovie([randomFrame(seed, 96, 80, 0.5), randomFrame(seed + 100, 96, 80, 0.5)]);
+      const [prev, cur] = m.labels as [Int32Array, Int32Array];
+      const phaseOf = (k: number, labels: Int32Array) => {
+        const p = new Uint8Array(Math.max(...labels) + 1).fill(255);
+        const f = k === 0 ? randomFrame(seed, 96, 80, 0.5) : randomFrame(seed + 100, 96, 80, 0.5);
+        for (let i = 0; i < labels.length; i++) p[labels[i]!] = f.data[i]!;
+        return p;
+      };
+      const pp = phaseOf(0, prev), cp = phaseOf(1, cur);
+      const want = plainCount(prev, cur, pp, cp);
+      expect(want.length).toBeGreaterThan(500);
+      // The default table, and one started at 64 slots that has to double five times or more.
+      for (const hint of [undefined, 1]) {
+        const counter = new OverlapCounter();
+        const n = counter.count(prev, cur, pp, cp, pp.length - 1, cp.length - 1, "test", hint);
+        const got = Array.from({ length: n }, (_, e) =>
+          [`${counter.pairPrev[e]},${counter.pairCur[e]}`, counter.pairPixels[e]!] as [string, number]).sort();
+        expect(got).toEqual(want);
+        expect(counter.capacity()).toBeGreaterThanOrEqual(2 * n);
+      }
+    }
+  });
+
+  it("counts nothing between pixels that changed phase", () => {
+    const counter = new OverlapCounter();
+    const prev = Int32Array.from([1, 1, 2, 2]), cur = Int32Array.from([1, 2, 1, 2]);
+    const pp = Uint8Array.from([255, 1, 0]), cp = Uint8Array.from([255, 0, 1]);
+    const n = counter.count(prev, cur, pp, cp, 2, 2, "test");
+    const pairs = Array.from({ length: n }, (_, e) => [counter.pairPrev[e], counter.pairCur[e], counter.pairPixels[e]]);
+    expect(pairs.sort()).toEqual([[1, 2, 1], [2, 1, 1]]);
+  });
+});
