@@ -37,14 +37,21 @@ export function spectrumAccumulatorBytes(bins: i32): f64 {
  * hh = h / 2 + 1 rows, with the radius in bins r = sqrt((kx' sx)^2 + (ky sy)^2) of
  * spectrumRadial. counts: f64[bins] annulus weights (cleared here). Returns the weighted number
  * of points beyond the last bin, or -1 on bad sizes.
+ * With tre != 0 it also does spectrumProfile's work for the spectrum in (tre, tim) on the way,
+ * adding in the same order into the same accumulator copies, so that the first frame of a
+ * workspace costs one pass and gets the very numbers the sweep gives later frames.
  */
 export function spectrumBinTable(
   table: usize, w: i32, h: i32, ts: i32, bins: i32, sx: f64, sy: f64, counts: usize,
+  tre: usize, tim: usize, acc: usize, sums: usize,
 ): f64 {
   const hh = (h >> 1) + 1;
   if (spectrumTableBytes(w, ts, bins) == 0 || ts < hh || h < 1) return -1;
   memory.fill(counts, 0, <usize>bins << 3);
   const nb = bins + 1;
+  const copy = <usize>nb * 16;
+  const sweep = tre != 0;
+  if (sweep) memory.fill(acc, 0, copy * 4);
   const hEven = (h & 1) == 0;
   const sy2 = sy * sy;
   let outside = 0.0;
@@ -65,11 +72,35 @@ export function spectrumBinTable(
         outside += wt;
         bin = bins;
       }
-      store<u16>(row + (<usize>ky << 1), <u16>(one ? nb + bin : bin));
+      const slot = one ? nb + bin : bin;
+      store<u16>(row + (<usize>ky << 1), <u16>slot);
+      if (sweep) {
+        // point i = kx ts + ky of the sweep: lane (copy) i & 3 = ky & 3, as ts is a multiple of 4
+        const i = (<usize>kx * <usize>ts + <usize>ky) << 2;
+        const a = load<f32>(tre + i), b = load<f32>(tim + i);
+        const o = acc + <usize>(ky & 3) * copy + (<usize>slot << 3);
+        store<f64>(o, load<f64>(o) + <f64>(a * a + b * b));
+      }
     }
     for (let ky = hh; ky < ts; ky++) store<u16>(row + (<usize>ky << 1), <u16>bins);
   }
+  if (sweep) reduceCopies(acc, bins, sums);
   return outside;
+}
+
+/** sums[b] = 2 sum_j A_j[b] + sum_j A_j[NB + b] over the four accumulator copies. */
+function reduceCopies(acc: usize, bins: i32, sums: usize): void {
+  const nb = bins + 1;
+  const copy = <usize>nb * 16;
+  const a0 = acc, a1 = acc + copy, a2 = acc + 2 * copy, a3 = acc + 3 * copy;
+  const half = <usize>nb << 3;
+  for (let b = 0; b < bins; b++) {
+    const o = <usize>b << 3;
+    const two = (load<f64>(a0 + o) + load<f64>(a1 + o)) + (load<f64>(a2 + o) + load<f64>(a3 + o));
+    const one = (load<f64>(a0 + half + o) + load<f64>(a1 + half + o)) +
+      (load<f64>(a2 + half + o) + load<f64>(a3 + half + o));
+    store<f64>(sums + o, 2 * two + one);
+  }
 }
 
 /**
@@ -99,14 +130,7 @@ export function spectrumProfile(
     store<f64>(o2, load<f64>(o2) + f64x2.extract_lane(hi, 0));
     store<f64>(o3, load<f64>(o3) + f64x2.extract_lane(hi, 1));
   }
-  const half = <usize>nb << 3;
-  for (let b = 0; b < bins; b++) {
-    const o = <usize>b << 3;
-    const two = (load<f64>(a0 + o) + load<f64>(a1 + o)) + (load<f64>(a2 + o) + load<f64>(a3 + o));
-    const one = (load<f64>(a0 + half + o) + load<f64>(a1 + half + o)) +
-      (load<f64>(a2 + half + o) + load<f64>(a3 + half + o));
-    store<f64>(sums + o, 2 * two + one);
-  }
+  reduceCopies(acc, bins, sums);
   return 1;
 }
 

@@ -36,7 +36,7 @@ export interface KernelExports {
   spectrumLoadBinary(src: number, n: number, dst: number): number;
   spectrumTableBytes(w: number, ts: number, bins: number): number;
   spectrumAccumulatorBytes(bins: number): number;
-  spectrumBinTable(table: number, w: number, h: number, ts: number, bins: number, sx: number, sy: number, counts: number): number;
+  spectrumBinTable(table: number, w: number, h: number, ts: number, bins: number, sx: number, sy: number, counts: number, tre: number, tim: number, acc: number, sums: number): number;
   spectrumProfile(tre: number, tim: number, table: number, w: number, ts: number, bins: number, acc: number, sums: number): number;
   structureTensorSums(src: number, w: number, h: number, periodic: number, out: number): number;
   [more: string]: unknown;

@@ -232,6 +232,7 @@ export class SpectrumKernels {
     const k = kernels();
     const f = this.fft;
     const key = `${bins} ${sx} ${sy}`;
+    const tre = k.fft2TRe(f.plan), tim = k.fft2TIm(f.plan);
     if (key !== this.tableKey) {
       const bytes = k.spectrumTableBytes(f.width, f.stride, bins);
       if (!(bytes > 0)) return this.radial(bins, sx, sy);
@@ -240,13 +241,14 @@ export class SpectrumKernels {
       this.table = wasmAlloc(bytes);
       this.acc = wasmAlloc(k.spectrumAccumulatorBytes(bins));
       const counts = this.binPtr + bins * 8;
-      const outside = k.spectrumBinTable(this.table, f.width, f.height, f.stride, bins, sx, sy, counts);
+      // builds the table and sums this frame in the same pass
+      const outside = k.spectrumBinTable(this.table, f.width, f.height, f.stride, bins, sx, sy, counts, tre, tim, this.acc, this.binPtr);
       this.tableCounts = viewF64(counts, bins).slice();
       this.tableOutside = outside;
       this.tableKey = key;
+    } else {
+      k.spectrumProfile(tre, tim, this.table, f.width, f.stride, bins, this.acc, this.binPtr);
     }
-    this.ensureBins(bins);
-    k.spectrumProfile(k.fft2TRe(f.plan), k.fft2TIm(f.plan), this.table, f.width, f.stride, bins, this.acc, this.binPtr);
     return { sums: viewF64(this.binPtr, bins).slice(), counts: this.tableCounts!, outside: this.tableOutside };
   }
 
