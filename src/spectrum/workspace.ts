@@ -1,5 +1,6 @@
 // A reusable spectrum workspace: the FFT plan, windows and reduction buffers for one frame
-// shape, allocated once in Wasm memory and reused for every frame of a sequence.
+// shape, allocated once in Wasm memory and reused for every frame of a sequence. The radial
+// profile's annulus-slot table is built with the first frame and swept for every later one.
 import type { Frame } from "../types";
 import { SpectrumKernels, type PrepareStats } from "../wasm/fft";
 import { checkFrame, resolveSpectrumOptions, type ResolvedSpectrumOptions, type SpectrumOptions } from "./options";
