@@ -65,6 +65,18 @@ describe("the annulus-slot profile", () => {
     k.dispose();
   });
 
+  it("falls back to the direct kernel when the bins do not fit u16 slots", () => {
+    // 50000 x 8: 35357 bins, above the 32767 a u16 table holds
+    const w = 50000, h = 8;
+    const k = transformed(w, h, noiseFrame(w, h, 9));
+    const bins = Math.ceil(w * Math.SQRT1_2) + 2;
+    const direct = k.radial(bins, 1, w / h);
+    const table = k.profile(bins, 1, w / h);
+    expect(Array.from(table.sums)).toEqual(Array.from(direct.sums));
+    expect(table.outside).toBe(direct.outside);
+    k.dispose();
+  });
+
   it("counts every spectrum point once: weights plus outside make width * height", () => {
     for (const [w, h] of shapes) {
       const k = transformed(w, h, noiseFrame(w, h, 1));
