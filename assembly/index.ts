@@ -5,3 +5,4 @@ export * from "./threshold";
 export * from "./label";
 export * from "./measure";
 export * from "./fft";
+export * from "./spectrum";

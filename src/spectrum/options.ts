@@ -40,7 +40,10 @@ export interface SpectrumOptions {
   /**
    * Structure-tensor estimate of the orientation: `global` gives the frame's nematic order from
    * the summed tensor, `local` adds the mean local coherence (Gaussian integration scale
-   * `structureSigmaPx`), `off` skips it. @default 'global'
+   * `structureSigmaPx`), `off` skips it. `global` runs as one SIMD pass over the loaded samples
+   * (a small fraction of the FFT's time); `local` runs in TypeScript, blurs three tensor fields
+   * and costs several times the whole spectrum analysis, so ask for it only when needed.
+   * @default 'global'
    */
   structureTensor?: "off" | "global" | "local";
   /** Integration scale of the local structure tensor, pixels. @default period / 2 (or 2 without a period) */

@@ -76,6 +76,19 @@ function blur(f: Float32Array, w: number, h: number, sigma: number, periodic: bo
 }
 
 /**
+ * Nematic order and dominant gradient direction of a frame-summed tensor [[sxx, sxy], [sxy, syy]];
+ * both undefined for a tensor without gradient energy.
+ */
+export function tensorOrder(sxx: number, syy: number, sxy: number): { order2: number | undefined; angleDeg: number | undefined } {
+  const trace = sxx + syy;
+  if (!(trace > 0)) return { order2: undefined, angleDeg: undefined };
+  return {
+    order2: Math.min(1, Math.hypot(sxx - syy, 2 * sxy) / trace),
+    angleDeg: wrapDeg((Math.atan2(2 * sxy, sxx - syy) * 90) / Math.PI, 180),
+  };
+}
+
+/**
  * Structure tensor of a frame with Scharr's rotation-optimised 3 x 3 derivative
  * ([3 10 3] / 32 smoothing x central difference; Scharr 2000, PhD thesis, Heidelberg).
  */
@@ -112,11 +125,9 @@ export function structureTensor(frame: Frame, options: StructureTensorOptions = 
     }
     sxx += rowXX; syy += rowYY; sxy += rowXY;
   }
-  const trace = sxx + syy;
   const result: StructureTensorResult = {
     width: w, height: h,
-    order2: trace > 0 ? Math.min(1, Math.hypot(sxx - syy, 2 * sxy) / trace) : undefined,
-    angleDeg: trace > 0 ? wrapDeg((Math.atan2(2 * sxy, sxx - syy) * 90) / Math.PI, 180) : undefined,
+    ...tensorOrder(sxx, syy, sxy),
     sigmaPx,
     options: { signal, boundary, output, sigmaPx },
   };

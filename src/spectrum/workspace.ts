@@ -1,12 +1,13 @@
 // A reusable spectrum workspace: the FFT plan, windows and reduction buffers for one frame
-// shape, allocated once in Wasm memory and reused for every frame of a sequence.
+// shape, allocated once in Wasm memory and reused for every frame of a sequence. The radial
+// profile's annulus-slot table is built with the first frame and swept for every later one.
 import type { Frame } from "../types";
 import { SpectrumKernels, type PrepareStats } from "../wasm/fft";
 import { checkFrame, resolveSpectrumOptions, type ResolvedSpectrumOptions, type SpectrumOptions } from "./options";
 import { hannWindow, flatWindow, windowEnergy } from "./window";
 import { findPeak, peakHalfWidth, refinePeak } from "./peak";
 import { ringOrder } from "./order";
-import { structureTensor } from "./structure-tensor";
+import { structureTensor, tensorOrder } from "./structure-tensor";
 import type { AngularDistribution, PowerSpectrum, RadialProfile, SpectrumResult, StructureSummary } from "./result";
 
 /** Smallest frame side with room for a ring. */
@@ -30,16 +31,27 @@ interface Transformed {
   norm: number;
 }
 
+/**
+ * How the workspace reduces a transformed frame. `table` (what `createSpectrumWorkspace` gives):
+ * the radial profile by one sweep over a per-shape table of annulus slots, and the global
+ * structure tensor in a Wasm kernel on the loaded samples. `direct`: the previous computation,
+ * a radius (square root) per spectrum point, and the structure tensor in TypeScript; kept as the
+ * reference the table path is tested and benchmarked against.
+ */
+export type ReductionPath = "table" | "direct";
+
 class Workspace implements SpectrumWorkspace {
   readonly width: number;
   readonly height: number;
+  private readonly path: ReductionPath;
+  private tensorSums: [number, number, number] | undefined;
   private k: SpectrumKernels | undefined;
   private windowKind: "hann" | "none" | undefined;
   private norm = 0;
   private pixelSize = 1;
   private done = false;
 
-  constructor(width: number, height: number) {
+  constructor(width: number, height: number, path: ReductionPath = "table") {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < SPECTRUM_MIN_SIDE || height < SPECTRUM_MIN_SIDE) {
       throw new RangeError(
         `domtopo: a spectrum workspace needs integer sides of at least ${SPECTRUM_MIN_SIDE} px, got ${width} x ${height}`,
@@ -47,6 +59,7 @@ class Workspace implements SpectrumWorkspace {
     }
     this.width = width;
     this.height = height;
+    this.path = path;
     this.k = new SpectrumKernels(width, height);
   }
 
@@ -73,6 +86,8 @@ class Workspace implements SpectrumWorkspace {
       this.windowKind = opts.window;
     }
     k.load(frame.data, opts.signal);
+    // the global tensor needs the samples before the window and mean removal below
+    this.tensorSums = this.path === "table" && opts.structureTensor === "global" ? k.structureSums(opts.boundary) : undefined;
     const stats = k.prepare();
     this.pixelSize = opts.pixelSize ?? 1;
     this.done = false;
@@ -110,7 +125,7 @@ class Workspace implements SpectrumWorkspace {
 
     // radial profile
     const sx = side / w, sy = side / h;
-    const radial = k.radial(bins, sx, sy);
+    const radial = this.path === "table" ? k.profile(bins, sx, sy) : k.radial(bins, sx, sy);
     const n = w * h;
     const profile: RadialProfile = { q: [], annulusMean: [], annulusIntegral: [], points: [], binWidth: dq / u };
     for (let b = 0; b < bins; b++) {
@@ -182,6 +197,10 @@ class Workspace implements SpectrumWorkspace {
   private structureSummary(frame: Frame, opts: ResolvedSpectrumOptions, periodPx: number | undefined): StructureSummary | undefined {
     if (opts.structureTensor === "off") return undefined;
     const sigmaPx = opts.structureSigmaPx ?? (periodPx !== undefined ? Math.min(32, Math.max(1, periodPx / 2)) : 2);
+    if (opts.structureTensor === "global" && this.tensorSums) {
+      const [sxx, syy, sxy] = this.tensorSums;
+      return { ...tensorOrder(sxx, syy, sxy), sigmaPx };
+    }
     const st = structureTensor(frame, {
       signal: opts.signal, boundary: opts.boundary, output: opts.structureTensor, sigmaPx,
     });
@@ -209,6 +228,14 @@ class Workspace implements SpectrumWorkspace {
 /** Creates a workspace for `width x height` frames (both at least 8 px); reuse it across a sequence. */
 export function createSpectrumWorkspace(width: number, height: number): SpectrumWorkspace {
   return new Workspace(width, height);
+}
+
+/**
+ * @internal A workspace on the `direct` reduction path (the computation before the slot table),
+ * for tests and benchmarks that compare the two.
+ */
+export function createReferenceSpectrumWorkspace(width: number, height: number): SpectrumWorkspace {
+  return new Workspace(width, height, "direct");
 }
 
 /** @internal used by powerSpectrum */

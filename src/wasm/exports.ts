@@ -34,5 +34,10 @@ export interface KernelExports {
   spectrumRing(plan: number, rLo: number, rHi: number, sx: number, sy: number, angleBins: number, hist: number, moments: number): number;
   spectrumPowerCentred(plan: number, scale: number, out: number): number;
   spectrumLoadBinary(src: number, n: number, dst: number): number;
+  spectrumTableBytes(w: number, ts: number, bins: number): number;
+  spectrumAccumulatorBytes(bins: number): number;
+  spectrumBinTable(table: number, w: number, h: number, ts: number, bins: number, sx: number, sy: number, counts: number, tre: number, tim: number, acc: number, sums: number): number;
+  spectrumProfile(tre: number, tim: number, table: number, w: number, ts: number, bins: number, acc: number, sums: number): number;
+  structureTensorSums(src: number, w: number, h: number, periodic: number, out: number): number;
   [more: string]: unknown;
 }

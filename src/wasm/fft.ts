@@ -150,6 +150,13 @@ export class SpectrumKernels {
   private anglePtr = 0;
   private readonly moments: number;
   private staging = 0;
+  /** Slot table of the table-driven profile, built for one (bins, sx, sy). */
+  private table = 0;
+  private tableKey = "";
+  private tableCounts: Float64Array | undefined;
+  private tableOutside = 0;
+  private acc = 0;
+  private readonly tensor: number;
 
   constructor(width: number, height: number) {
     this.fft = new RealFFT2D(width, height);
@@ -157,6 +164,7 @@ export class SpectrumKernels {
     this.winY = wasmAlloc(height * 4);
     this.stats = wasmAlloc(64);
     this.moments = wasmAlloc(64);
+    this.tensor = wasmAlloc(32);
   }
 
   get width(): number { return this.fft.width; }
@@ -215,6 +223,53 @@ export class SpectrumKernels {
     return { sums: viewF64(sums, bins).slice(), counts: viewF64(counts, bins).slice(), outside };
   }
 
+  /**
+   * Radial sums of |X|^2 as `radial` gives them, by one sweep over a per-shape table of annulus
+   * slots (built on the first call for these bins and scales, then reused frame after frame).
+   * Falls back to `radial` when the bins do not fit u16 slots. `counts` is shared between calls.
+   */
+  profile(bins: number, sx: number, sy: number): RadialSums {
+    const k = kernels();
+    const f = this.fft;
+    const key = `${bins} ${sx} ${sy}`;
+    const tre = k.fft2TRe(f.plan), tim = k.fft2TIm(f.plan);
+    if (key !== this.tableKey) {
+      const bytes = k.spectrumTableBytes(f.width, f.stride, bins);
+      if (!(bytes > 0)) return this.radial(bins, sx, sy);
+      this.freeTable();
+      this.ensureBins(bins);
+      this.table = wasmAlloc(bytes);
+      this.acc = wasmAlloc(k.spectrumAccumulatorBytes(bins));
+      const counts = this.binPtr + bins * 8;
+      // builds the table and sums this frame in the same pass
+      const outside = k.spectrumBinTable(this.table, f.width, f.height, f.stride, bins, sx, sy, counts, tre, tim, this.acc, this.binPtr);
+      this.tableCounts = viewF64(counts, bins).slice();
+      this.tableOutside = outside;
+      this.tableKey = key;
+    } else {
+      k.spectrumProfile(tre, tim, this.table, f.width, f.stride, bins, this.acc, this.binPtr);
+    }
+    return { sums: viewF64(this.binPtr, bins).slice(), counts: this.tableCounts!, outside: this.tableOutside };
+  }
+
+  /**
+   * Frame sums [gx^2, gy^2, gx gy] of the Scharr gradient of the loaded samples (call after
+   * `load`, before `prepare` windows them); the numbers of `structureTensor`'s global output.
+   */
+  structureSums(boundary: "open" | "periodic"): [number, number, number] {
+    kernels().structureTensorSums(this.fft.inputPtr, this.width, this.height, boundary === "periodic" ? 1 : 0, this.tensor);
+    const s = viewF64(this.tensor, 3);
+    return [s[0]!, s[1]!, s[2]!];
+  }
+
+  private freeTable(): void {
+    if (this.table) wasmFree(this.table);
+    if (this.acc) wasmFree(this.acc);
+    this.table = this.acc = 0;
+    this.tableKey = "";
+    this.tableCounts = undefined;
+  }
+
   /** Angular moments and histogram of |X|^2 over rLo <= r <= rHi (radius in bins). */
   ring(rLo: number, rHi: number, sx: number, sy: number, angleBins: number): RingSums {
     if (angleBins > this.angleBins) {
@@ -253,6 +308,8 @@ export class SpectrumKernels {
     if (this.binPtr) wasmFree(this.binPtr);
     if (this.anglePtr) wasmFree(this.anglePtr);
     if (this.staging) wasmFree(this.staging);
+    wasmFree(this.tensor);
+    this.freeTable();
     this.binPtr = this.anglePtr = this.staging = 0;
   }
 }
