@@ -4,3 +4,5 @@ export { setGeometry, setBuffers } from "./common";
 export * from "./threshold";
 export * from "./label";
 export * from "./measure";
+export * from "./thin";
+export * from "./edt";

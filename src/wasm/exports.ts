@@ -24,3 +24,11 @@ export interface KernelExports {
   measureQuads(): void;
   [more: string]: unknown;
 }
+
+// Skeleton kernels (assembly/thin.ts, assembly/edt.ts).
+export interface SkeletonKernelExports {
+  bindThin(skeleton: number, list: number, candidates: number, table: number): void;
+  thinPhase(phase: number): number;
+  thinFinish(n: number): void;
+  distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
+}
