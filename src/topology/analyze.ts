@@ -1,0 +1,221 @@
+// analyzeFrame: a frame in, both phases labeled and measured, plain data out.
+import type { Frame } from "../types";
+import { checkFrame, checkSize } from "../frame";
+import { LabelingWorkspace, type QuadStats, type RuleCode } from "../wasm/labeling";
+import { resolveLevel, type ResolvedLevel } from "../prep/threshold";
+import { resolveFrameOptions, type FrameOptions, type ResolvedFrameOptions } from "./options";
+import { buildDomainTable, croftonLength, type DomainTable } from "./domains";
+
+export interface PhaseSummary {
+  /** Number of domains of this phase. */
+  domains: number;
+  /** Area in unit^2 and as a fraction of the frame. */
+  area: number;
+  areaFraction: number;
+  /** Euler number of the whole phase by bit-quads (in the plane, or on the torus/cylinder). */
+  euler: number;
+  /** Holes of the non-wrapping domains: the sum of (1 - Euler number) over them. */
+  holes: number;
+  /** Domains that wind around a periodic side, and domains touching an open side. */
+  wrapping: number;
+  edge: number;
+  /** Euler number per area (unit^-2) and wall length per area (unit^-1, shared by both phases). */
+  eulerDensity: number;
+  wallLengthDensity: number;
+  /** Domains absorbed into the other phase by `minDomainArea`. */
+  absorbed: number;
+}
+
+export interface FrameResult {
+  /** The options that produced this result (with defaults filled in). */
+  options: ResolvedFrameOptions;
+  width: number;
+  height: number;
+  /** The level used: a sample is up when above it (before `invert`), and how it was chosen. */
+  threshold: ResolvedLevel;
+  /** m = (A_up - A_down) / (A_up + A_down). */
+  magnetization: number;
+  /** Total wall length (Crofton, four directions) in unit, and per frame area in unit^-1. */
+  wallLength: number;
+  wallLengthDensity: number;
+  up: PhaseSummary;
+  down: PhaseSummary;
+  domains: DomainTable;
+  /** The label image (ids 1..K; row i of `domains` is id i + 1), when `keepLabels` is set. */
+  labels?: Int32Array;
+}
+
+function ruleCode(o: ResolvedFrameOptions): RuleCode {
+  return o.connectivity === 8 ? 0 : o.connectivity === 4 ? 1 : 2;
+}
+
+/** Phase Euler numbers from the quad histogram (Gray 1971): 4 E = Q1 - Q3 -+ 2 QD + border. */
+export function phaseEulers(stats: QuadStats): { up: number; down: number } {
+  const { hist, border } = stats;
+  let q1 = 0, q3 = 0;
+  for (let code = 0; code < 16; code++) {
+    const n = ((code & 1) + ((code >> 1) & 1) + ((code >> 2) & 1) + ((code >> 3) & 1));
+    if (n === 1) q1 += hist[code]!;
+    else if (n === 3) q3 += hist[code]!;
+  }
+  const qdUp = hist[6]! + hist[9]!; // diagonal quads where the up pair joins
+  const qdDown = hist[16]! + hist[17]!;
+  const b = border[0]!;
+  const up = (q1 - q3 - 2 * qdUp + 2 * qdDown + b + border[1]!) / 4;
+  const down = (q3 - q1 - 2 * qdDown + 2 * qdUp + b + border[2]!) / 4;
+  return { up, down };
+}
+
+/** Phase changes along rows, columns and both diagonals, from the quad histogram. */
+export function frameCrossings(stats: QuadStats): [number, number, number, number] {
+  const { hist, border } = stats;
+  let n0 = border[3]!, n90 = border[4]!, n45 = 0, n135 = 0;
+  for (let bin = 0; bin < 18; bin++) {
+    const code = bin === 16 ? 6 : bin === 17 ? 9 : bin;
+    const c = hist[bin]!;
+    if (c === 0) continue;
+    const a = code & 1, b = (code >> 1) & 1, cc = (code >> 2) & 1, d = (code >> 3) & 1;
+    if (a !== b) n0 += c;
+    if (a !== cc) n90 += c;
+    if (b !== cc) n45 += c;
+    if (a !== d) n135 += c;
+  }
+  return [n0, n90, n45, n135];
+}
+
+/**
+ * A reusable analysis workspace for frames of one shape: a movie analyzed through it allocates
+ * the Wasm memory of one frame. `labels()` and `phase()` are views valid until the next call.
+ */
+export class FrameAnalyzer {
+  readonly width: number;
+  readonly height: number;
+  private ws: LabelingWorkspace;
+
+  constructor(width: number, height: number) {
+    checkSize("analyzer width", width);
+    checkSize("analyzer height", height);
+    this.width = width;
+    this.height = height;
+    this.ws = new LabelingWorkspace(width, height);
+  }
+
+  /** Analyzes one frame (its shape must match the analyzer's). */
+  analyze(frame: Frame, options: FrameOptions = {}, where = "frame"): FrameResult {
+    checkFrame(frame, where);
+    if (frame.width !== this.width || frame.height !== this.height) {
+      throw new Error(
+        `${where}: expected a ${this.width} x ${this.height} frame for this analyzer, got ${frame.width} x ${frame.height}`,
+      );
+    }
+    const o = resolveFrameOptions(options);
+    const ws = this.ws;
+    const kind = ws.loadSamples(frame.data);
+    const level = resolveLevel(ws, kind, o.threshold, where);
+    const nan = ws.threshold(kind, level.cut, o.invert);
+    if (nan > 0) throw new Error(`${where}: expected finite samples, got ${nan} NaN sample(s)`);
+    const rule = ruleCode(o);
+    if (rule === 2) ws.saddleDecisions(kind, level.level, o.invert);
+    const px = o.boundary === "periodic" || o.boundary === "periodic-x";
+    const py = o.boundary === "periodic" || o.boundary === "periodic-y";
+    ws.label(rule, px, py);
+    const absorbed = { up: 0, down: 0 };
+    if (o.minDomainArea > 1) {
+      // Up specks first, then down specks: flipping a speck only merges it into its
+      // surroundings, so two rounds leave no domain below the limit.
+      for (const p of [1, 0] as const) {
+        const area = ws.i32Column("area"), phase = ws.i32Column("phase");
+        let count = 0;
+        for (let d = 1; d <= ws.domainCount; d++) {
+          if (phase[d] === p && area[d]! < o.minDomainArea) count++;
+        }
+        if (count === 0) continue;
+        ws.absorb(p, o.minDomainArea);
+        if (p === 1) absorbed.up = count; else absorbed.down = count;
+        // Saddle decisions stay those of the samples; re-label the edited phase map.
+        ws.label(rule, px, py);
+      }
+    }
+    const stats = ws.measureQuads();
+    const domains = buildDomainTable(ws, o.pixelSize);
+    return summarize(this.width, this.height, o, level, stats, domains, absorbed,
+      o.keepLabels ? ws.labels().slice() : undefined);
+  }
+
+  /** View of the last label image (ids 1..K), valid until the next call. */
+  labels(): Int32Array {
+    return this.ws.labels();
+  }
+
+  /** View of the last phase map (1 up, 0 down), valid until the next call. */
+  phase(): Uint8Array {
+    return this.ws.phase();
+  }
+
+  /** Bytes of Wasm memory this analyzer holds. */
+  memoryBytes(): number {
+    return this.ws.bytes();
+  }
+
+  dispose(): void {
+    this.ws.dispose();
+  }
+}
+
+function summarize(
+  width: number, height: number, o: ResolvedFrameOptions, level: ResolvedLevel, stats: QuadStats,
+  domains: DomainTable, absorbed: { up: number; down: number }, labels: Int32Array | undefined,
+): FrameResult {
+  const s = o.pixelSize;
+  const pixels = width * height;
+  const frameArea = pixels * s * s;
+  const eulers = phaseEulers(stats);
+  const [n0, n90, n45, n135] = frameCrossings(stats);
+  const wallLength = croftonLength(n0, n90, n45, n135) * s;
+  const wallLengthDensity = wallLength / frameArea;
+  const phase = (p: 0 | 1): PhaseSummary => {
+    let count = 0, area = 0, holes = 0, wrapping = 0, edge = 0;
+    for (let i = 0; i < domains.count; i++) {
+      if (domains.phase[i] !== p) continue;
+      count++;
+      area += domains.area[i]!;
+      if (domains.wrapsX[i] || domains.wrapsY[i]) wrapping++;
+      else holes += domains.holes[i]!;
+      if (domains.edge[i]) edge++;
+    }
+    const euler = p === 1 ? eulers.up : eulers.down;
+    return {
+      domains: count, area, areaFraction: area / frameArea, euler, holes, wrapping, edge,
+      eulerDensity: euler / frameArea, wallLengthDensity,
+      absorbed: p === 1 ? absorbed.up : absorbed.down,
+    };
+  };
+  const up = phase(1), down = phase(0);
+  const result: FrameResult = {
+    options: o, width, height, threshold: level,
+    magnetization: (up.area - down.area) / frameArea,
+    wallLength, wallLengthDensity, up, down, domains,
+  };
+  if (labels) result.labels = labels;
+  return result;
+}
+
+let shared: FrameAnalyzer | undefined;
+
+/**
+ * Analyzes one frame: thresholds it, labels both phases (complementary connectivity, open or
+ * periodic sides) and measures every domain. Reuses one workspace between calls of equal shape.
+ */
+export function analyzeFrame(frame: Frame, options: FrameOptions = {}): FrameResult {
+  checkFrame(frame);
+  if (!shared || shared.width !== frame.width || shared.height !== frame.height) {
+    shared?.dispose();
+    shared = new FrameAnalyzer(frame.width, frame.height);
+  }
+  return shared.analyze(frame, options);
+}
+
+/** A workspace for analyzing many frames of one shape (see FrameAnalyzer). */
+export function createAnalyzer(width: number, height: number): FrameAnalyzer {
+  return new FrameAnalyzer(width, height);
+}

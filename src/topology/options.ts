@@ -1,0 +1,91 @@
+// Options of a frame analysis, their defaults and their validation.
+import { checkChoice, checkNumber, checkPositive } from "../frame";
+import type { ThresholdOption } from "../prep/threshold";
+
+export type Boundary = "open" | "periodic" | "periodic-x" | "periodic-y";
+/**
+ * Connectivity of the up phase; the down phase gets the complement (8 <-> 4) so that the two
+ * phases' topologies agree. `'saddle'` decides each diagonal quad from the grey samples: the
+ * diagonal pair on whose side the quad's mean falls is joined (asymptotic decider).
+ *
+ * ```
+ *  8-connected       4-connected       a diagonal quad   # . <- up pair (#) joined under 8,
+ *   # # #               #               (saddle)         . #    down pair (.) joined under 4
+ *   # o #             # o #
+ *   # # #               #
+ * ```
+ */
+export type Connectivity = 8 | 4 | "saddle";
+
+export interface FrameOptions {
+  /** Level between down and up in sample units, `'otsu'` per frame, or `'zero'`. @default 'otsu' */
+  threshold?: ThresholdOption;
+  /** Take dark samples as up (by default bright = up). @default false */
+  invert?: boolean;
+  /** Connectivity of the up phase (down gets the other one). @default 8 */
+  connectivity?: Connectivity;
+  /** Open image sides, or periodic ones (simulations on a torus). @default 'open' */
+  boundary?: Boundary;
+  /** Domains smaller than this many pixels are absorbed into the surrounding phase. @default 0 */
+  minDomainArea?: number;
+  /** Length of one pixel in `unit`; lengths, areas and densities are reported in it. @default 1 */
+  pixelSize?: number;
+  /** Name of the length unit. @default 'px' (or 'unit' when pixelSize is given without one) */
+  unit?: string;
+  /** Keep a copy of the label image (domain ids 1..K) in the result. @default false */
+  keepLabels?: boolean;
+}
+
+export interface ResolvedFrameOptions {
+  threshold: ThresholdOption;
+  invert: boolean;
+  connectivity: Connectivity;
+  boundary: Boundary;
+  minDomainArea: number;
+  pixelSize: number;
+  unit: string;
+  keepLabels: boolean;
+}
+
+const KNOWN = new Set([
+  "threshold", "invert", "connectivity", "boundary", "minDomainArea", "pixelSize", "unit",
+  "keepLabels",
+]);
+
+export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOptions {
+  if (options === null || typeof options !== "object") {
+    throw new Error(`options: expected an object, got ${String(options)}`);
+  }
+  for (const key of Object.keys(options)) {
+    if (!KNOWN.has(key)) {
+      throw new Error(`options.${key}: unknown option (known: ${[...KNOWN].join(", ")})`);
+    }
+  }
+  const threshold = options.threshold ?? "otsu";
+  if (typeof threshold === "number") {
+    if (!Number.isFinite(threshold)) {
+      throw new Error(`options.threshold: expected a finite number, "otsu" or "zero", got ${threshold}`);
+    }
+  } else {
+    checkChoice("options.threshold", threshold, ["otsu", "zero"] as const);
+  }
+  const invert = options.invert ?? false;
+  if (typeof invert !== "boolean") {
+    throw new Error(`options.invert: expected true or false, got ${String(invert)}`);
+  }
+  const connectivity = checkChoice("options.connectivity", options.connectivity ?? 8, [8, 4, "saddle"] as const);
+  const boundary = checkChoice(
+    "options.boundary", options.boundary ?? "open", ["open", "periodic", "periodic-x", "periodic-y"] as const,
+  );
+  const minDomainArea = checkNumber("options.minDomainArea", options.minDomainArea ?? 0, 0);
+  if (!Number.isInteger(minDomainArea)) {
+    throw new Error(`options.minDomainArea: expected a whole number of pixels, got ${minDomainArea}`);
+  }
+  const pixelSize = checkPositive("options.pixelSize", options.pixelSize ?? 1);
+  const unit = options.unit ?? (options.pixelSize === undefined ? "px" : "unit");
+  if (typeof unit !== "string" || unit.length === 0) {
+    throw new Error(`options.unit: expected a non-empty string, got ${String(unit)}`);
+  }
+  const keepLabels = options.keepLabels ?? false;
+  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels };
+}
