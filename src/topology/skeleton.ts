@@ -102,6 +102,15 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     const ay = (a - ax) / w, by = (b - bx) / w;
     return ax !== bx && ay !== by ? SQRT2 : 1;
   };
+  // Half the chord to the pixel two steps back: straight runs count 1 a step, diagonal runs
+  // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps).
+  const chord = (a: number, b: number): number => {
+    const ax = a % w, bx = b % w;
+    let dx = Math.abs(bx - ax), dy = Math.abs((a - ax) / w - (b - bx) / w);
+    if (px && dx > w / 2) dx = w - dx;
+    if (py && dy > h / 2) dy = h - dy;
+    return Math.hypot(dx, dy) / 2;
+  };
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
   const node = new Int32Array(n).fill(-1);
   const nodePixel: number[] = [], nodeDomain: number[] = [], nodeDegree: number[] = [], nodeHalf: number[] = [];
@@ -149,7 +158,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
         continue;
       }
       if (seen[wpx]) continue;
-      let prev = u, cur = wpx, len = step(u, wpx);
+      let prev = u, cur = wpx, len = step(u, wpx) / 2;
       // Mean width from interior pixels (end pixels sit at the domain border, junctions widen).
       let sum = 0, cnt = 0, mx = 0;
       let b = -1;
@@ -159,9 +168,10 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
         if (distance[cur]! > mx) mx = distance[cur]!;
         const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
         const next = n0 === prev ? n1 : n0;
-        len += step(cur, next);
+        len += chord(prev, next);
         if (node[next] !== -1) {
           b = node[next]!;
+          len += step(cur, next) / 2;
           break;
         }
         if (seen[next]) break; // cannot happen on a clean line; stop rather than loop
@@ -182,7 +192,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
       if (distance[cur]! > mx) mx = distance[cur]!;
       const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
       const next = n0 === prev ? n1 : n0;
-      len += step(cur, next);
+      len += chord(prev, next);
       prev = cur; cur = next;
     }
     bA.push(-1); bB.push(-1); bD.push(labels[i]!); bL.push(len); bS.push(sum); bP.push(cnt); bM.push(mx);
@@ -239,27 +249,33 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
   let guard = 0;
   while (changed && guard++ < 10000) {
     changed = false;
-    // Spurs, shortest first.
-    const spurs: number[] = [];
+    // Spurs: every terminal branch shorter than spurFactor x the half-width at its junction
+    // goes in the same pass (so the result does not depend on the order of equal spurs; the
+    // two corner spurs at a square stripe end both go, leaving the end at the fork). Where
+    // every branch of a junction is such a spur (a compact blob), the two longest stay.
+    const spursAt = new Map<number, number[]>();
     for (let b = 0; b < g.branchCount; b++) {
       if (!alive[b] || A[b]! < 0) continue;
-      const da = deg[A[b]!]!, db = deg[B[b]!]!;
-      if ((da === 1 && db >= 3) || (db === 1 && da >= 3)) spurs.push(b);
-    }
-    spurs.sort((p, q) => L[p]! - L[q]!);
-    for (const b of spurs) {
-      if (!alive[b]) continue;
       const a = A[b]!, c = B[b]!;
-      if (a < 0) continue;
-      const end = deg[a] === 1 ? a : deg[c] === 1 ? c : -1;
+      const end = deg[a] === 1 && deg[c]! >= 3 ? a : deg[c] === 1 && deg[a]! >= 3 ? c : -1;
       if (end < 0) continue;
       const j = other(b, end);
-      if (deg[j]! < 3) continue;
       if (L[b]! >= o.spurFactor * hw[j]!) continue;
-      alive[b] = 0;
-      deg[end] = -1;
-      deg[j]!--;
-      changed = true;
+      let list = spursAt.get(j);
+      if (!list) { list = []; spursAt.set(j, list); }
+      list.push(b);
+    }
+    for (const [j, list] of spursAt) {
+      if (deg[j]! < 3) continue;
+      list.sort((p, q) => L[p]! - L[q]! || p - q);
+      const cut = list.length >= deg[j]! ? list.length - 2 : list.length;
+      for (let t = 0; t < cut; t++) {
+        const b = list[t]!;
+        alive[b] = 0;
+        deg[other(b, j)] = -1;
+        deg[j]!--;
+        changed = true;
+      }
       if (deg[j] === 2) dissolve(j);
     }
     // Junctions joined by a short branch are one junction.
