@@ -16,6 +16,7 @@ export interface SkeletonColumns {
   count: number;
   /** Length of the pruned skeleton (unit); 1 and sqrt 2 steps between pixel centres. */
   skeletonLength: Float64Array;
+  /** End nodes (a one-pixel skeleton counts as a segment of length 0, with two ends). */
   ends: Int32Array;
   /** Junction nodes of degree 3, and of degree 4 or more (a crossing is one degree-4 node). */
   junctions3: Int32Array;
@@ -59,7 +60,9 @@ export function classifyDomains(g: SkeletonGraph, count: number, pointDistance: 
     if (d < 0) continue;
     const r = g.nodeDomain[v]! - 1;
     nodes[r]!++;
-    if (d === 1) c.ends[r]!++;
+    // A skeleton of one pixel is a segment of length 0: two ends, like any short bubble's line.
+    if (d === 0) c.ends[r]! += 2;
+    else if (d === 1) c.ends[r]!++;
     else if (d === 3) c.junctions3[r]!++;
     else if (d >= 4) c.junctions4plus[r]!++;
   }

@@ -1,7 +1,7 @@
 // Skeletons of every domain of a labeled frame: thinning (Wasm), the pruned skeleton graph,
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
-import { skeletonGraph, type SkeletonGraph } from "./skeleton";
+import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
 export type SkeletonBoundary = "open" | "periodic" | "periodic-x" | "periodic-y";
@@ -46,8 +46,10 @@ export interface SkeletonAnalysis {
   columns: SkeletonColumns;
   up: PhaseSkeletonSummary;
   down: PhaseSkeletonSummary;
-  /** 1 on the skeleton of each pixel's phase (copy). */
+  /** 1 on the skeleton of each pixel's phase, as thinned (copy). */
   skeleton: Uint8Array;
+  /** 1 on the skeleton pixels that survive spur pruning. */
+  pruned: Uint8Array;
   /** Distance to the other phase, px (copy). */
   distance: Float32Array;
   graph: SkeletonGraph;
@@ -130,6 +132,6 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
     options: o, columns,
     up: summarizePhase(columns, domainPhase, area, 1, n, o.pixelSize),
     down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
-    skeleton, distance, graph,
+    skeleton, pruned: prunedSkeleton(graph), distance, graph,
   };
 }

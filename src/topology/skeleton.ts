@@ -51,6 +51,40 @@ export interface SkeletonGraph {
   branchAlive: Uint8Array;
   nodeCount: number;
   branchCount: number;
+  /** Per skeleton pixel: branch id (>= 0), -2 - node id for node pixels, -1 elsewhere. */
+  pixelOwner: Int32Array;
+  /** A dead branch or node that was folded into another points at it (itself otherwise). */
+  branchParent: Int32Array;
+  nodeParent: Int32Array;
+  /** A short branch merged into a junction: that node (-1 otherwise). */
+  branchIntoNode: Int32Array;
+  /** A degree-2 node dissolved into a branch: that branch (-1 otherwise). */
+  nodeIntoBranch: Int32Array;
+}
+
+function follow(parent: Int32Array, i: number): number {
+  while (parent[i] !== i) i = parent[i]!;
+  return i;
+}
+
+/** 1 on the skeleton pixels that survive pruning (pixels of pruned spurs and their end nodes are 0). */
+export function prunedSkeleton(g: SkeletonGraph): Uint8Array {
+  const out = new Uint8Array(g.pixelOwner.length);
+  for (let i = 0; i < out.length; i++) {
+    const o = g.pixelOwner[i]!;
+    if (o === -1) continue;
+    if (o >= 0) {
+      const b = follow(g.branchParent, o);
+      const into = g.branchIntoNode[b]!;
+      out[i] = g.branchAlive[b] || (into >= 0 && g.nodeDegree[follow(g.nodeParent, into)]! >= 0) ? 1 : 0;
+    }
+    else {
+      const v = follow(g.nodeParent, -2 - o);
+      const into = g.nodeIntoBranch[v]!;
+      out[i] = g.nodeDegree[v]! >= 0 || (into >= 0 && g.branchAlive[follow(g.branchParent, into)]) ? 1 : 0;
+    }
+  }
+  return out;
 }
 
 const SQRT2 = Math.SQRT2;
@@ -138,6 +172,8 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   }
   // Branches from every node pixel; interior pixels have degree 2.
   const seen = new Uint8Array(n);
+  const owner = new Int32Array(n).fill(-1);
+  for (const i of skelPixels) if (node[i] !== -1) owner[i] = -2 - node[i]!;
   const bA: number[] = [], bB: number[] = [], bD: number[] = [], bL: number[] = [], bS: number[] = [], bP: number[] = [], bM: number[] = [];
   const endWeight = (p: number) => (deg[p] === 1 ? 1 : 0);
   for (const u of skelPixels) {
@@ -164,6 +200,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
       let b = -1;
       while (true) {
         seen[cur] = 1;
+        owner[cur] = bA.length;
         sum += distance[cur]!; cnt++;
         if (distance[cur]! > mx) mx = distance[cur]!;
         const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
@@ -188,6 +225,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     let prev = nbr[8 * i + 1]!, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
     while (!seen[cur]) {
       seen[cur] = 1;
+      owner[cur] = bA.length;
       sum += distance[cur]!; cnt++;
       if (distance[cur]! > mx) mx = distance[cur]!;
       const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
@@ -204,6 +242,11 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     branchLength: Float64Array.from(bL), branchSumDistance: Float64Array.from(bS),
     branchPixels: Int32Array.from(bP), branchMaxDistance: Float64Array.from(bM), branchAlive: new Uint8Array(bA.length).fill(1),
     nodeCount: nodePixel.length, branchCount: bA.length,
+    pixelOwner: owner,
+    branchParent: Int32Array.from(bA, (_v, i) => i),
+    nodeParent: Int32Array.from(nodePixel, (_v, i) => i),
+    branchIntoNode: new Int32Array(bA.length).fill(-1),
+    nodeIntoBranch: new Int32Array(nodePixel.length).fill(-1),
   };
   simplify(g, options);
   return g;
@@ -229,6 +272,7 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
   const dissolve = (v: number) => {
     const bs = liveAt(v);
     deg[v] = -1;
+    if (bs.length > 0) g.nodeIntoBranch[v] = bs[0]!;
     if (bs.length === 1) {
       // Both ends of one branch: a loop through v becomes a ring.
       const b = bs[0]!;
@@ -238,6 +282,7 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     const [b1, b2] = bs as [number, number];
     const u = other(b1, v), x = other(b2, v);
     // b1 takes over b2: u - v - x.
+    g.branchParent[b2] = b1;
     L[b1] = L[b1]! + L[b2]!; S[b1] = S[b1]! + S[b2]!; P[b1] = P[b1]! + P[b2]!;
     M[b1] = Math.max(M[b1]!, M[b2]!, hw[v]!);
     A[b1] = u; B[b1] = x;
@@ -245,6 +290,7 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     at[x]!.push(b1);
     if (u === x && u === v) { A[b1] = -1; B[b1] = -1; }
   };
+  const merged = new Uint8Array(g.nodeCount);
   let changed = true;
   let guard = 0;
   while (changed && guard++ < 10000) {
@@ -278,18 +324,34 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
       }
       if (deg[j] === 2) dissolve(j);
     }
-    // Junctions joined by a short branch are one junction.
+    // Junctions joined by a short branch are one junction: two degree-3 nodes whose shortest
+    // junction-to-junction branch is the same and shorter than junctionMergeFactor x the local
+    // width (2 x the larger half-width of the two). A node merges once, so a network of close
+    // junctions does not collapse into one node; a thinned crossing becomes one degree-4 node.
+    const shortest = (v: number): number => {
+      let best = -1;
+      for (const e of liveAt(v)) {
+        const x = other(e, v);
+        if (x === v || x < 0 || deg[x]! < 3) continue;
+        if (best < 0 || L[e]! < L[best]!) best = e;
+      }
+      return best;
+    };
     for (let b = 0; b < g.branchCount; b++) {
       if (!alive[b] || A[b]! < 0) continue;
       const a = A[b]!, c = B[b]!;
-      if (a === c || deg[a]! < 3 || deg[c]! < 3) continue;
+      if (a === c || deg[a] !== 3 || deg[c] !== 3 || merged[a] || merged[c]) continue;
       const width = 2 * Math.max(hw[a]!, hw[c]!);
       if (L[b]! >= o.junctionMergeFactor * width) continue;
+      if (shortest(a) !== b || shortest(c) !== b) continue;
       alive[b] = 0;
+      merged[a] = 1; merged[c] = 1;
       // c folds into a.
       deg[a] = deg[a]! + deg[c]! - 2;
       hw[a] = Math.max(hw[a]!, hw[c]!);
       deg[c] = -1;
+      g.nodeParent[c] = a;
+      g.branchIntoNode[b] = a; // the joining branch's pixels are part of the junction now
       for (const e of at[c]!) {
         if (!alive[e]) continue;
         if (A[e] === c) A[e] = a;
