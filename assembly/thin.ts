@@ -17,9 +17,10 @@
 // index bits 0..7 = ring E, NE, N, NW, W, SW, S, SE in the skeleton; bits 8..11 = diagonal
 // decisions of the quads NE, NW, SW, SE of the pixel. Entry bit 0 = simple, bit 1 = end.
 //
-// SK (u8 per pixel): bit 0 = in the skeleton of its own phase, bit 1 = on the work list.
+// SK (u8 per pixel): bit 0 = in the skeleton of its own phase, bit 1 = on the work list,
+// bit 2 = neighbourhood changed in this sweep, bit 3 / bit 4 = phase down / up.
 // Thinning phase v reads only pixels with PH == v as foreground, so the phases never interact.
-import { W, H, PX, PY, PH, joinsDiagonal } from "./common";
+import { W, H, PX, PY, PH, RULE, joinsDiagonal } from "./common";
 
 let TABLE: usize = 0; // 4096 u8
 let SK: usize = 0;
@@ -99,8 +100,11 @@ function buildTable(): void {
 
 // ---- neighbourhoods --------------------------------------------------------------------------
 
+// While thinning, SK also holds the pixel's phase: bit 3 down, bit 4 up (thinStart sets them).
 @inline function inSkel(v: i32, j: i32): i32 {
-  return j < 0 ? 0 : <i32>((<i32>load<u8>(PH + <usize>j) == v) & ((<i32>load<u8>(SK + <usize>j) & 1) != 0));
+  if (j < 0) return 0;
+  const m = 1 | (8 << v);
+  return <i32>((<i32>load<u8>(SK + <usize>j) & m) == m);
 }
 
 // Neighbour indices of the last `gather` (-1 outside an open side).
@@ -128,6 +132,7 @@ function gather(v: i32, i: i32): i32 {
     (inSkel(v, W_) << 4) | (inSkel(v, SW_) << 5) | (inSkel(v, S_) << 6) | (inSkel(v, SE_) << 7);
   // Quads by top-left corner: NE (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y). Where a quad
   // leaves an open side its decision never matters (it cannot hold a diagonal skeleton pair).
+  if (RULE != 2) return c | (joinsDiagonal(v, 0) ? 0xf00 : 0);
   const qx0 = xm < 0 ? x : xm, qy0 = ym < 0 ? y : ym;
   const dNE = <i32>joinsDiagonal(v, qy0 * w + x);
   const dNW = <i32>joinsDiagonal(v, qy0 * w + qx0);
@@ -143,8 +148,8 @@ function gather(v: i32, i: i32): i32 {
 
 @inline function enlist(j: i32): void {
   const s = <i32>load<u8>(SK + <usize>j);
+  store<u8>(SK + <usize>j, <u8>(s | 6)); // listed, touched
   if ((s & 2) == 0) {
-    store<u8>(SK + <usize>j, <u8>(s | 2));
     stl(LA, NLIST, j);
     NLIST++;
   }
@@ -167,15 +172,31 @@ function enlistNeighbours(v: i32): void {
   store<u8>(SK + <usize>j, <u8>(on ? s | 1 : s & ~1));
 }
 
-/** Drops list entries that left the skeleton (their list bit is cleared). */
-function compactList(): void {
+/**
+ * Drops list entries that left the skeleton and, with `settled`, those whose neighbourhood did
+ * not change during the sweep: they were tested in all four directions against the same
+ * neighbourhood, so they can only become deletable after a neighbour goes (which lists them again).
+ */
+function compactList(settled: bool): void {
   let k = 0;
   for (let j = 0; j < NLIST; j++) {
     const i = ldl(LA, j);
     const s = <i32>load<u8>(SK + <usize>i);
-    if ((s & 1) != 0) { stl(LA, k, i); k++; } else store<u8>(SK + <usize>i, <u8>(s & ~2));
+    if ((s & 1) != 0 && (!settled || (s & 4) != 0)) { stl(LA, k, i); k++; store<u8>(SK + <usize>i, <u8>(s & ~4)); }
+    else store<u8>(SK + <usize>i, <u8>(s & ~6));
   }
   NLIST = k;
+}
+
+/** Lists every skeleton pixel of phase v. */
+function listAll(v: i32): void {
+  const n = W * H;
+  for (let j = 0; j < NLIST; j++) {
+    const i = ldl(LA, j);
+    store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) & ~6));
+  }
+  NLIST = 0;
+  for (let i = 0; i < n; i++) if (inSkel(v, i)) enlist(i);
 }
 
 /** Sequential deletion of simple non-end pixels over the work list until none is left. */
@@ -271,21 +292,24 @@ function breakBlocks(v: i32): i32 {
 }
 
 /**
- * Thins the phase-v pixels of the frame (PH, geometry from setGeometry). SK must hold bit 0 set
- * on every pixel of phase v before the call (the TS side sets the whole buffer to 1 once for both
- * phases). Returns the number of 2x2 blocks that could not be broken (0 in every case measured).
+ * Thins the phase-v pixels of the frame (PH, geometry from setGeometry). Call thinPhase(1) first
+ * (it fills SK), then thinPhase(0), then thinFinish. Returns the number of 2x2 blocks that could not be broken (0 in every case measured).
  */
 export function thinPhase(v: i32): i32 {
   const w = W, h = H, n = w * h;
   WX = PX && w >= 3;
   WY = PY && h >= 3;
   NLIST = 0;
+  if (v == 1) {
+    for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  }
   // Initial border: phase-v pixels with a 4-neighbour outside the skeleton.
   for (let i = 0; i < n; i++) {
     if (!inSkel(v, i)) continue;
     const c = gather(v, i);
     if ((c & 0x55) != 0x55) enlist(i);
   }
+  compactList(false); // clears the touched bits
   // Directional sweeps: N (bit 2), S (bit 6), E (bit 0), W (bit 4) border pixels in turn.
   let changed = true;
   while (changed) {
@@ -310,19 +334,66 @@ export function thinPhase(v: i32): i32 {
         }
       }
     }
-    compactList();
+    compactList(true);
   }
   // Simple pixels with no 4-neighbour outside (possible for a 4-connected skeleton), then blocks.
+  listAll(v);
   sweepSequential(v);
-  compactList();
+  compactList(false);
   const left = breakBlocks(v);
-  compactList();
+  compactList(false);
   return left;
 }
 
-/** Clears the list bits of SK (call after both phases). */
+/** Clears the work bits of SK, leaving 1 on skeleton pixels (call after both phases, up first). */
 export function thinFinish(n: i32): void {
   for (let i = 0; i < n; i++) {
     store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) & 1));
   }
+}
+
+/**
+ * Distance-ordered thinning of both phases (Pudney 1998, CVIU 72:404): every pixel is tested
+ * once, in order of increasing distance to the other phase (half-pixel levels, raster order
+ * within a level), and deleted when simple and not an end; then the sequential sweep and the
+ * block pass of `thinPhase` finish each phase. Same guarantees, about one neighbourhood test
+ * per pixel instead of one per pixel and sweep. `dist` is the f32 distance map
+ * (distancePhases), `counts` i32 scratch of `levels + 1` entries. Returns the blocks left.
+ */
+export function thinByDistance(dist: usize, counts: usize, levels: i32): i32 {
+  const w = W, h = H, n = w * h;
+  WX = PX && w >= 3;
+  WY = PY && h >= 3;
+  for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  // Counting sort of the pixels by level into LB2.
+  memory.fill(counts, 0, <usize>(levels + 1) << 2);
+  const top = levels - 1;
+  for (let i = 0; i < n; i++) {
+    let l = <i32>(load<f32>(dist + (<usize>i << 2)) * 2);
+    if (l > top) l = top;
+    stl(counts, l + 1, ldl(counts, l + 1) + 1);
+  }
+  for (let l = 1; l <= levels; l++) stl(counts, l, ldl(counts, l) + ldl(counts, l - 1));
+  for (let i = 0; i < n; i++) {
+    let l = <i32>(load<f32>(dist + (<usize>i << 2)) * 2);
+    if (l > top) l = top;
+    const k = ldl(counts, l);
+    stl(LB2, k, i);
+    stl(counts, l, k + 1);
+  }
+  for (let k = 0; k < n; k++) {
+    const i = ldl(LB2, k);
+    const v = <i32>load<u8>(PH + <usize>i) != 0 ? 1 : 0;
+    if (entry(gather(v, i)) == 1) setSkel(i, false);
+  }
+  let left = 0;
+  NLIST = 0;
+  for (let v = 1; v >= 0; v--) {
+    listAll(v);
+    sweepSequential(v);
+    compactList(false);
+    left += breakBlocks(v);
+    compactList(false);
+  }
+  return left;
 }

@@ -21,6 +21,8 @@ export interface SkeletonOptions {
   bubbleMaxAspect?: number;
   /** Length of one pixel in the output unit. @default 1 */
   pixelSize?: number;
+  /** Thinning order (see ThinGeometry.order). @default 'directional' */
+  thinning?: "directional" | "distance";
 }
 
 export interface ResolvedSkeletonOptions {
@@ -30,6 +32,7 @@ export interface ResolvedSkeletonOptions {
   junctionMergeFactor: number;
   bubbleMaxAspect: number;
   pixelSize: number;
+  thinning: "directional" | "distance";
 }
 
 /** A labeled frame: phase map, labels 1..count (same boundary and connectivity). */
@@ -55,7 +58,7 @@ export interface SkeletonAnalysis {
   graph: SkeletonGraph;
 }
 
-const KNOWN = new Set(["boundary", "connectivity", "quads", "spurFactor", "junctionMergeFactor", "bubbleMaxAspect", "pixelSize"]);
+const KNOWN = new Set(["boundary", "connectivity", "quads", "spurFactor", "junctionMergeFactor", "bubbleMaxAspect", "pixelSize", "thinning"]);
 
 function positive(name: string, v: number): number {
   if (typeof v !== "number" || !Number.isFinite(v) || v < 0) {
@@ -84,7 +87,12 @@ export function resolveSkeletonOptions(o: SkeletonOptions = {}): ResolvedSkeleto
     junctionMergeFactor: positive("junctionMergeFactor", o.junctionMergeFactor ?? 1),
     bubbleMaxAspect: positive("bubbleMaxAspect", o.bubbleMaxAspect ?? 1),
     pixelSize,
+    thinning: o.thinning === "distance" ? "distance" : o.thinning === undefined || o.thinning === "directional" ? "directional" : bad("thinning", o.thinning),
   };
+}
+
+function bad(name: string, v: unknown): never {
+  throw new Error(`options.${name}: expected 'directional' or 'distance', got ${String(v)}`);
 }
 
 let shared: SkeletonWorkspace | undefined;
@@ -113,7 +121,7 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const periodicX = o.boundary === "periodic" || o.boundary === "periodic-x";
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
   const ws = workspace ?? skeletonWorkspace(width, height);
-  const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads });
+  const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
   const graph = skeletonGraph(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads },

@@ -30,5 +30,6 @@ export interface SkeletonKernelExports {
   bindThin(skeleton: number, list: number, candidates: number, table: number): void;
   thinPhase(phase: number): number;
   thinFinish(n: number): void;
+  thinByDistance(distance: number, counts: number, levels: number): number;
   distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
 }

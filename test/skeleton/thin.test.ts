@@ -2,9 +2,9 @@ import { describe, it, expect } from "vitest";
 import { thinPhases } from "../../src/wasm/skeleton";
 import { noiseFrame, label, eulerPerDomain, countBlocks, grid, rng } from "./helpers";
 
-function check(phase: Uint8Array, w: number, h: number, px: boolean, py: boolean, rule: 0 | 1 | 2, quads?: Uint8Array) {
+function check(phase: Uint8Array, w: number, h: number, px: boolean, py: boolean, rule: 0 | 1 | 2, quads?: Uint8Array, order: "directional" | "distance" = "directional") {
   const L = label(phase, w, h, px, py, rule, quads);
-  const { skeleton, blocksLeft } = thinPhases(phase, w, h, { periodicX: px, periodicY: py, rule, quads });
+  const { skeleton, blocksLeft } = thinPhases(phase, w, h, { periodicX: px, periodicY: py, rule, quads, order });
   // A topology-preserving thinning keeps every domain's Euler number and the domain count (CHECKS.md).
   const before = eulerPerDomain(L, null, px, py, rule, quads);
   const after = eulerPerDomain(L, skeleton, px, py, rule, quads);
@@ -58,6 +58,17 @@ describe("thinning", () => {
       const r = check(phase, w, h, px, py, 0);
       expect(r.blocks).toBe(0);
       expect(Array.from(r.after)).toEqual(Array.from(r.before));
+    }
+  });
+
+  it("keeps topology and leaves no block with the distance order too (100 frames)", () => {
+    for (let s = 0; s < 100; s++) {
+      const w = 48, h = 40, periodic = s % 2 === 0;
+      const phase = noiseFrame(w, h, 7000 + s, 1 + (s % 3), 2, 0.25 + 0.5 * ((s * 3) % 7) / 6);
+      const r = check(phase, w, h, periodic, periodic, (s % 3 === 1 ? 1 : 0) as 0 | 1, undefined, "distance");
+      expect(r.skelDomains).toBe(r.L.count);
+      expect(Array.from(r.after)).toEqual(Array.from(r.before));
+      expect(r.blocks).toBe(0);
     }
   });
 
