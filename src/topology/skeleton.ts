@@ -89,14 +89,24 @@ export function prunedSkeleton(g: SkeletonGraph): Uint8Array {
 
 const SQRT2 = Math.SQRT2;
 
+// Per-pixel scratch, kept between calls of one frame size (a movie reuses it).
+let pooled: { n: number; deg: Uint8Array; nbr: Int32Array; node: Int32Array; seen: Uint8Array } | undefined;
+function scratch(n: number) {
+  if (!pooled || pooled.n !== n) {
+    pooled = { n, deg: new Uint8Array(n), nbr: new Int32Array(8 * n), node: new Int32Array(n), seen: new Uint8Array(n) };
+  }
+  return pooled;
+}
+
 /** Builds the pixel graph of the skeleton, then prunes and merges it. */
 export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
   const { width: w, height: h, phase, labels, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
   const n = w * h;
   const px = periodicX && w >= 3, py = periodicY && h >= 3;
   // Neighbour lists of skeleton pixels, packed: for pixel i, nbr[8i .. 8i + deg - 1].
-  const deg = new Uint8Array(n);
-  const nbr = new Int32Array(8 * n);
+  const pool = scratch(n);
+  const deg = pool.deg, nbr = pool.nbr;
+  deg.fill(0);
   const joinsDiag = (v: number, q: number): boolean => {
     if (rule === 0) return v === 1;
     if (rule === 1) return v === 0;
@@ -146,7 +156,8 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     return Math.hypot(dx, dy) / 2;
   };
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
-  const node = new Int32Array(n).fill(-1);
+  const node = pool.node;
+  node.fill(-1);
   const nodePixel: number[] = [], nodeDomain: number[] = [], nodeDegree: number[] = [], nodeHalf: number[] = [];
   const stack: number[] = [];
   for (const i of skelPixels) {
@@ -171,7 +182,8 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     nodeHalf.push(distance[best]!);
   }
   // Branches from every node pixel; interior pixels have degree 2.
-  const seen = new Uint8Array(n);
+  const seen = pool.seen;
+  seen.fill(0);
   const owner = new Int32Array(n).fill(-1);
   for (const i of skelPixels) if (node[i] !== -1) owner[i] = -2 - node[i]!;
   const bA: number[] = [], bB: number[] = [], bD: number[] = [], bL: number[] = [], bS: number[] = [], bP: number[] = [], bM: number[] = [];
