@@ -16,6 +16,6 @@ export default defineConfig({
   platform: "neutral",
   splitting: true,
   treeshake: true,
-  noExternal: ["upng-js"],
+  noExternal: ["upng-js", "pako", "fft.js"],
   external: [/^node:/],
 });

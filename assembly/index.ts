@@ -6,3 +6,4 @@ export * from "./label";
 export * from "./measure";
 export * from "./thin";
 export * from "./edt";
+export * from "./fft";

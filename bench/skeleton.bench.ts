@@ -90,7 +90,7 @@ for (const size of [512, 1024]) {
     .add(`${size} distance-order thinning + graph + classification`, () => { analyzeSkeletons(frame, { boundary: "periodic", thinning: "distance" }, sws); })
     .add(`${size} Zhang-Suen plain TS`, () => { zhangSuen(phase, size, size, 1, img, del); zhangSuen(phase, size, size, 0, img, del); })
     .on("cycle", (e: Benchmark.Event) => {
-      const b = e.target as Benchmark & { stats: { sample: number[] } };
+      const b = e.target as unknown as Benchmark & { stats: { sample: number[] } };
       const ms = median(b.stats.sample) * 1e3;
       results.push({ size, name: String(b.name), ms });
       console.log(`  ${b.name}: median ${ms.toFixed(2)} ms (${b.stats.sample.length} samples)`);

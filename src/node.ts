@@ -1,2 +1,4 @@
-// domtopo/node: everything of the library entry plus the Node-only pieces (files, workers).
+// domtopo/node: everything of the library entry plus the Node-only pieces (files, CLI).
 export * from "./index";
+export { writeFileAtomic, AtomicWriter } from "./node/atomic";
+export { main as runCli } from "./cli/main";

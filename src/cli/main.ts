@@ -1,4 +1,322 @@
+// The domtopo command line: a thin front over the public API.
+import { parseArgs, type ParseArgsConfig } from "node:util";
+import { readFileSync } from "node:fs";
+import { join, resolve, basename } from "node:path";
+import { createAnalyzer, type FrameAnalyzer } from "../topology/analyze";
+import type { FrameOptions } from "../topology/options";
+import { frameRow, domainHeader, domainRows, csvLine, type Cell } from "../topology/rows";
+import { demoSweep } from "../demo/sweep";
+import { AtomicWriter, writeFileAtomic } from "../node/atomic";
+import { Progress } from "./progress";
+import { decodePngFrame, encodeGreyPng } from "./frames-png";
+import type { Frame } from "../types";
+import { VERSION } from "../version";
+
+/** Exit codes: 0 done, 1 the run failed (bad input file, analysis error), 2 bad command line. */
+export const EXIT = { ok: 0, failed: 1, usage: 2 } as const;
+
+class UsageError extends Error {}
+
+const FRAME_OPTIONS_HELP = `Frame options:
+  --threshold L         level between down and up: a number (sample units), otsu, or zero
+                        (default: otsu for analyze, halfway between saturated levels for demo)
+  --invert              dark samples are up (default: bright = up)
+  --connectivity C      connectivity of the up phase: 8, 4 or saddle (down gets the other) [8]
+  --boundary B          open, periodic, periodic-x or periodic-y [open]
+  --min-area N          absorb domains smaller than N pixels into their surroundings [0]
+  --pixel-size S        length of one pixel, in --unit [1]
+  --unit U              length unit of the tables [px]`;
+
+const HELP: Record<string, string> = {
+  main: `domtopo ${VERSION}: topology of magnetic domain patterns (bubbles, stripes, labyrinths)
+
+Usage: domtopo <command> [options]
+
+Commands:
+  demo                  generate the built-in synthetic field sweep and analyze every frame
+  analyze <files...>    analyze PNG frames (one row per frame)
+  help [command]        show help for a command
+
+Run 'domtopo <command> --help' for the options of a command.
+Exit codes: 0 done, 1 the run failed (unreadable input, analysis error), 2 bad command line.`,
+  demo: `Usage: domtopo demo [options]
+
+Generates an invented field sweep (a Gaussian random field thresholded at levels that follow the
+applied field: bubbles of one phase, a maze, bubbles of the other), writes the frames as PNG and
+analyzes them.
+
+Options:
+  --out DIR             output folder [domtopo-demo]
+  --frames N            number of frames [41]
+  --size N              frame side in pixels, a power of two [256]
+  --pattern P           maze or stripes [maze]
+  --seed N              seed of the pattern and the noise [3]
+  --quiet               no progress and no summary
+  -h, --help            this help
+
+Writes DIR/frames/*.png, DIR/fields.csv (field per frame), DIR/frames.csv (one row per frame),
+DIR/domains.csv (one row per domain and frame) and DIR/run.json (scenario and options).
+
+${FRAME_OPTIONS_HELP}`,
+  analyze: `Usage: domtopo analyze <frame.png...> [options]
+
+Analyzes each PNG (8-bit grey; colour is reduced to Rec. 709 luma) as one frame, in the order
+given.
+
+Options:
+  --out DIR             write DIR/frames.csv, DIR/domains.csv (with --domains) and DIR/run.json;
+                        without --out the per-frame table goes to standard output
+  --domains             also write the per-domain table
+  --quiet               no progress and no summary
+  -h, --help            this help
+
+${FRAME_OPTIONS_HELP}`,
+};
+
+const FRAME_FLAGS = {
+  threshold: { type: "string" },
+  invert: { type: "boolean" },
+  connectivity: { type: "string" },
+  boundary: { type: "string" },
+  "min-area": { type: "string" },
+  "pixel-size": { type: "string" },
+  unit: { type: "string" },
+  quiet: { type: "boolean" },
+  help: { type: "boolean", short: "h" },
+} as const;
+
+type Values = Record<string, string | boolean | undefined>;
+
+function parse(command: string, argv: string[], extra: ParseArgsConfig["options"]): { values: Values; positionals: string[] } {
+  try {
+    const r = parseArgs({ args: argv, options: { ...FRAME_FLAGS, ...extra }, allowPositionals: true, strict: true });
+    return { values: r.values as Values, positionals: r.positionals };
+  } catch (err) {
+    throw new UsageError(`${command}: ${(err as Error).message}`);
+  }
+}
+
+function number(flag: string, text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const v = Number(text);
+  if (text.trim() === "" || !Number.isFinite(v)) {
+    throw new UsageError(`--${flag}: expected a number, got ${JSON.stringify(text)}`);
+  }
+  return v;
+}
+
+function frameOptions(values: Record<string, unknown>, defaults: FrameOptions): FrameOptions {
+  const o: FrameOptions = { ...defaults };
+  const t = values.threshold as string | undefined;
+  if (t !== undefined) o.threshold = t === "otsu" || t === "zero" ? t : number("threshold", t);
+  if (values.invert) o.invert = true;
+  const c = values.connectivity as string | undefined;
+  if (c !== undefined) {
+    if (c !== "8" && c !== "4" && c !== "saddle") {
+      throw new UsageError(`--connectivity: expected 8, 4 or saddle, got ${JSON.stringify(c)}`);
+    }
+    o.connectivity = c === "saddle" ? "saddle" : (Number(c) as 8 | 4);
+  }
+  if (values.boundary !== undefined) o.boundary = values.boundary as FrameOptions["boundary"];
+  const m = number("min-area", values["min-area"] as string | undefined);
+  if (m !== undefined) o.minDomainArea = m;
+  const s = number("pixel-size", values["pixel-size"] as string | undefined);
+  if (s !== undefined) o.pixelSize = s;
+  if (values.unit !== undefined) o.unit = values.unit as string;
+  return o;
+}
+
+interface Tables {
+  frames: AtomicWriter | undefined;
+  domains: AtomicWriter | undefined;
+  stdout: boolean;
+  headerDone: boolean;
+}
+
+function writeRow(t: Tables, lead: Array<[string, Cell]>, analyzer: FrameAnalyzer, frame: Frame, options: FrameOptions, where: string) {
+  const r = analyzer.analyze(frame, options, where);
+  const row = [...lead, ...frameRow(r)];
+  const text = (t.headerDone ? "" : csvLine(row.map(([k]) => k))) + csvLine(row.map(([, v]) => v));
+  t.headerDone = true;
+  if (t.frames) t.frames.write(text);
+  else if (t.stdout) process.stdout.write(text);
+  if (t.domains) {
+    const leadCells = lead.map(([, v]) => v);
+    let out = "";
+    for (const d of domainRows(r)) out += csvLine([...leadCells, ...d]);
+    t.domains.write(out);
+  }
+  return r;
+}
+
+async function runDemo(argv: string[]): Promise<number> {
+  const { values } = parse("demo", argv, {
+    out: { type: "string" }, frames: { type: "string" }, size: { type: "string" },
+    pattern: { type: "string" }, seed: { type: "string" },
+  });
+  if (values.help) { process.stdout.write(HELP.demo + "\n"); return EXIT.ok; }
+  const out = resolve((values.out as string | undefined) ?? "domtopo-demo");
+  const pattern = (values.pattern as string | undefined) ?? "maze";
+  if (pattern !== "maze" && pattern !== "stripes") {
+    throw new UsageError(`--pattern: expected maze or stripes, got ${JSON.stringify(pattern)}`);
+  }
+  const sweep = demoSweep({
+    frames: number("frames", values.frames as string | undefined),
+    size: number("size", values.size as string | undefined),
+    seed: number("seed", values.seed as string | undefined),
+    pattern,
+  });
+  const options = frameOptions(values, {
+    threshold: sweep.threshold, pixelSize: sweep.pixelSize, unit: sweep.unit, minDomainArea: 4,
+  });
+  const quiet = Boolean(values.quiet);
+  const fieldCol = `field_${sweep.fieldUnit}`;
+  const tables: Tables = {
+    frames: new AtomicWriter(join(out, "frames.csv")),
+    domains: new AtomicWriter(join(out, "domains.csv")),
+    stdout: false, headerDone: false,
+  };
+  const fieldsCsv = new AtomicWriter(join(out, "fields.csv"));
+  const analyzer = createAnalyzer(sweep.width, sweep.height);
+  const progress = new Progress(sweep.fields.length, "demo", process.stderr, !quiet);
+  const started = performance.now();
+  let analysisMs = 0;
+  const picks: Array<{ field: number; m: number; up: number; down: number; eu: number; ed: number }> = [];
+  try {
+    fieldsCsv.write(`frame,file,${fieldCol}\n`);
+    tables.domains!.write(csvLine(["frame", fieldCol, ...domainHeader(sweep.unit)]));
+    for (let k = 0; k < sweep.fields.length; k++) {
+      const frame = sweep.frame(k);
+      const name = `frame-${String(k).padStart(4, "0")}.png`;
+      writeFileAtomic(join(out, "frames", name), encodeGreyPng(frame));
+      fieldsCsv.write(csvLine([k, name, sweep.fields[k]!]));
+      const t0 = performance.now();
+      const r = writeRow(tables, [["frame", k], [fieldCol, sweep.fields[k]!]], analyzer, frame, options, `demo frame ${k}`);
+      analysisMs += performance.now() - t0;
+      picks.push({ field: sweep.fields[k]!, m: r.magnetization, up: r.up.domains, down: r.down.domains, eu: r.up.euler, ed: r.down.euler });
+      progress.tick(k + 1);
+    }
+    progress.done();
+    tables.frames!.commit();
+    tables.domains!.commit();
+    fieldsCsv.commit();
+  } catch (err) {
+    tables.frames!.abort(); tables.domains!.abort(); fieldsCsv.abort();
+    throw err;
+  } finally {
+    analyzer.dispose();
+  }
+  writeFileAtomic(join(out, "run.json"), JSON.stringify({
+    tool: "domtopo", version: VERSION, command: "demo", scenario: sweep.scenario,
+    frames: sweep.fields.length, width: sweep.width, height: sweep.height,
+    fieldUnit: sweep.fieldUnit, pattern, options,
+  }, null, 2) + "\n");
+  if (!quiet) {
+    const total = (performance.now() - started) / 1000;
+    const lines = [
+      sweep.scenario,
+      "",
+      `${sweep.fields.length} frames of ${sweep.width} x ${sweep.height} px analyzed in ${(analysisMs / 1000).toFixed(2)} s ` +
+        `(${((1000 * sweep.fields.length) / analysisMs).toFixed(0)} frames/s; ${total.toFixed(1)} s with PNG writing)`,
+      "",
+      `  ${fieldCol.padStart(9)}  magnetization  up domains  down domains  Euler up  Euler down`,
+    ];
+    const step = Math.max(1, Math.round((picks.length - 1) / 8));
+    for (let k = 0; k < picks.length; k += step) {
+      const p = picks[k]!;
+      lines.push(`  ${p.field.toFixed(1).padStart(9)}  ${p.m.toFixed(3).padStart(13)}  ${String(p.up).padStart(10)}  ` +
+        `${String(p.down).padStart(12)}  ${String(p.eu).padStart(8)}  ${String(p.ed).padStart(10)}`);
+    }
+    lines.push("", `Wrote ${join(out, "frames.csv")}, domains.csv, fields.csv, run.json and frames/*.png`);
+    process.stdout.write(lines.join("\n") + "\n");
+  }
+  return EXIT.ok;
+}
+
+async function runAnalyze(argv: string[]): Promise<number> {
+  const { values, positionals } = parse("analyze", argv, {
+    out: { type: "string" }, domains: { type: "boolean" },
+  });
+  if (values.help) { process.stdout.write(HELP.analyze + "\n"); return EXIT.ok; }
+  if (positionals.length === 0) throw new UsageError("analyze: expected at least one PNG file (see domtopo analyze --help)");
+  const options = frameOptions(values, {});
+  const outDir = values.out as string | undefined;
+  const quiet = Boolean(values.quiet);
+  const tables: Tables = {
+    frames: outDir ? new AtomicWriter(join(resolve(outDir), "frames.csv")) : undefined,
+    domains: outDir && values.domains ? new AtomicWriter(join(resolve(outDir), "domains.csv")) : undefined,
+    stdout: !outDir, headerDone: false,
+  };
+  if (values.domains && !outDir) throw new UsageError("--domains needs --out DIR");
+  const progress = new Progress(positionals.length, "analyze", process.stderr, !quiet);
+  let analyzer: FrameAnalyzer | undefined;
+  try {
+    if (tables.domains) tables.domains.write(csvLine(["frame", "file", ...domainHeader(options.unit ?? (options.pixelSize ? "unit" : "px"))]));
+    for (let k = 0; k < positionals.length; k++) {
+      const file = positionals[k]!;
+      const where = `${file}: frame ${k}`;
+      let bytes: Uint8Array;
+      try { bytes = readFileSync(file); } catch (err) {
+        throw new Error(`${file}: cannot read (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+      }
+      const frame = decodePngFrame(bytes, file);
+      if (!analyzer || analyzer.width !== frame.width || analyzer.height !== frame.height) {
+        analyzer?.dispose();
+        analyzer = createAnalyzer(frame.width, frame.height);
+      }
+      writeRow(tables, [["frame", k], ["file", basename(file)]], analyzer, frame, options, where);
+      progress.tick(k + 1);
+    }
+    progress.done();
+    tables.frames?.commit();
+    tables.domains?.commit();
+  } catch (err) {
+    tables.frames?.abort();
+    tables.domains?.abort();
+    throw err;
+  } finally {
+    analyzer?.dispose();
+  }
+  if (outDir) {
+    writeFileAtomic(join(resolve(outDir), "run.json"), JSON.stringify({
+      tool: "domtopo", version: VERSION, command: "analyze", inputs: positionals, options,
+    }, null, 2) + "\n");
+    if (!quiet) process.stderr.write(`Wrote ${positionals.length} rows to ${join(resolve(outDir), "frames.csv")}\n`);
+  }
+  return EXIT.ok;
+}
+
 export async function main(argv: string[]): Promise<number> {
-  process.stdout.write(`domtopo ${argv.join(" ")}\n`);
-  return 0;
+  const [command, ...rest] = argv;
+  try {
+    switch (command) {
+      case undefined:
+      case "-h":
+      case "--help":
+        process.stdout.write(HELP.main + "\n");
+        return command === undefined ? EXIT.usage : EXIT.ok;
+      case "help": {
+        const topic = rest[0] ?? "main";
+        if (!HELP[topic]) throw new UsageError(`help: unknown command ${JSON.stringify(topic)}`);
+        process.stdout.write(HELP[topic] + "\n");
+        return EXIT.ok;
+      }
+      case "--version":
+        process.stdout.write(VERSION + "\n");
+        return EXIT.ok;
+      case "demo":
+        return await runDemo(rest);
+      case "analyze":
+        return await runAnalyze(rest);
+      default:
+        throw new UsageError(`unknown command ${JSON.stringify(command)} (commands: demo, analyze, help)`);
+    }
+  } catch (err) {
+    if (err instanceof UsageError) {
+      process.stderr.write(`domtopo: ${err.message}\n`);
+      return EXIT.usage;
+    }
+    process.stderr.write(`domtopo: ${(err as Error).message}\n`);
+    return EXIT.failed;
+  }
 }

@@ -5,6 +5,10 @@ import { LabelingWorkspace, type QuadStats, type RuleCode } from "../wasm/labeli
 import { resolveLevel, type ResolvedLevel } from "../prep/threshold";
 import { resolveFrameOptions, type FrameOptions, type ResolvedFrameOptions } from "./options";
 import { buildDomainTable, croftonLength, type DomainTable } from "./domains";
+import { createSpectrumWorkspace, SPECTRUM_MIN_SIDE, type SpectrumWorkspace } from "../spectrum/workspace";
+import { analyzeSpectrum } from "../spectrum/analyze";
+import type { SpectrumResult } from "../spectrum/result";
+import type { SpectrumOptions } from "../spectrum/options";
 
 export interface PhaseSummary {
   /** Number of domains of this phase. */
@@ -41,6 +45,8 @@ export interface FrameResult {
   up: PhaseSummary;
   down: PhaseSummary;
   domains: DomainTable;
+  /** Period, correlation length and order from the power spectrum (absent when `spectrum: 'off'`). */
+  spectrum?: SpectrumResult;
   /** The label image (ids 1..K; row i of `domains` is id i + 1), when `keepLabels` is set. */
   labels?: Int32Array;
 }
@@ -91,6 +97,8 @@ export class FrameAnalyzer {
   readonly width: number;
   readonly height: number;
   private ws: LabelingWorkspace;
+  private spectrumWs: SpectrumWorkspace | undefined;
+  private phaseCopy: Uint8Array | undefined;
 
   constructor(width: number, height: number) {
     checkSize("analyzer width", width);
@@ -138,8 +146,29 @@ export class FrameAnalyzer {
     }
     const stats = ws.measureQuads();
     const domains = buildDomainTable(ws, o.pixelSize);
-    return summarize(this.width, this.height, o, level, stats, domains, absorbed,
+    const result = summarize(this.width, this.height, o, level, stats, domains, absorbed,
       o.keepLabels ? ws.labels().slice() : undefined);
+    if (o.spectrum !== "off") result.spectrum = this.spectrumOf(frame, o);
+    return result;
+  }
+
+  private spectrumOf(frame: Frame, o: ResolvedFrameOptions): SpectrumResult {
+    const s = o.spectrum as Exclude<ResolvedFrameOptions["spectrum"], "off">;
+    const grey = s.signal === "grey";
+    let input: Frame = frame;
+    if (!grey) {
+      // Copy the phase map out of Wasm memory: the spectrum kernels share that memory.
+      this.phaseCopy ??= new Uint8Array(this.width * this.height);
+      this.phaseCopy.set(this.ws.phase());
+      input = { width: this.width, height: this.height, data: this.phaseCopy };
+    }
+    const options: SpectrumOptions = {
+      ...s, signal: grey ? "grey" : "binary", pixelSize: o.pixelSize, lengthUnit: o.unit,
+      boundary: o.boundary === "periodic" ? "periodic" : "open",
+    };
+    if (this.width < SPECTRUM_MIN_SIDE || this.height < SPECTRUM_MIN_SIDE) return analyzeSpectrum(input, options);
+    this.spectrumWs ??= createSpectrumWorkspace(this.width, this.height);
+    return this.spectrumWs.analyze(input, options);
   }
 
   /** View of the last label image (ids 1..K), valid until the next call. */
@@ -159,6 +188,8 @@ export class FrameAnalyzer {
 
   dispose(): void {
     this.ws.dispose();
+    this.spectrumWs?.dispose();
+    this.spectrumWs = undefined;
   }
 }
 

@@ -1,6 +1,7 @@
 // Options of a frame analysis, their defaults and their validation.
 import { checkChoice, checkNumber, checkPositive } from "../frame";
 import type { ThresholdOption } from "../prep/threshold";
+import type { SpectrumOptions } from "../spectrum/options";
 
 export type Boundary = "open" | "periodic" | "periodic-x" | "periodic-y";
 /**
@@ -34,6 +35,12 @@ export interface FrameOptions {
   unit?: string;
   /** Keep a copy of the label image (domain ids 1..K) in the result. @default false */
   keepLabels?: boolean;
+  /**
+   * Power spectrum, period, correlation length and orientational order of the frame, or
+   * `'off'`. By default of the +-1 phase map; `{signal: 'grey'}` uses the samples. Pixel size,
+   * unit and boundary come from the frame options. @default {}
+   */
+  spectrum?: "off" | Omit<SpectrumOptions, "pixelSize" | "lengthUnit" | "boundary">;
 }
 
 export interface ResolvedFrameOptions {
@@ -45,11 +52,12 @@ export interface ResolvedFrameOptions {
   pixelSize: number;
   unit: string;
   keepLabels: boolean;
+  spectrum: "off" | Omit<SpectrumOptions, "pixelSize" | "lengthUnit" | "boundary">;
 }
 
 const KNOWN = new Set([
   "threshold", "invert", "connectivity", "boundary", "minDomainArea", "pixelSize", "unit",
-  "keepLabels",
+  "keepLabels", "spectrum",
 ]);
 
 export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOptions {
@@ -87,5 +95,14 @@ export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOp
     throw new Error(`options.unit: expected a non-empty string, got ${String(unit)}`);
   }
   const keepLabels = options.keepLabels ?? false;
-  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels };
+  const spectrum = options.spectrum ?? {};
+  if (spectrum !== "off" && (spectrum === null || typeof spectrum !== "object")) {
+    throw new Error(`options.spectrum: expected "off" or an object of spectrum options, got ${String(spectrum)}`);
+  }
+  for (const key of ["pixelSize", "lengthUnit", "boundary"]) {
+    if (spectrum !== "off" && key in spectrum) {
+      throw new Error(`options.spectrum.${key}: set it on the frame options (options.${key === "lengthUnit" ? "unit" : key})`);
+    }
+  }
+  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels, spectrum };
 }

@@ -22,6 +22,18 @@ export interface KernelExports {
   fillTrigTables(): void;
   measureRuns(K: number, periodic: number): void;
   measureQuads(): void;
+  fft2Bytes(w: number, h: number): number;
+  fft2InitScratchBytes(w: number, h: number): number;
+  fft2Init(plan: number, w: number, h: number, tmp: number): number;
+  fft2TRe(plan: number): number;
+  fft2TIm(plan: number): number;
+  fft2TStride(plan: number): number;
+  fft2Forward(plan: number, src: number): number;
+  spectrumPrepare(src: number, w: number, h: number, winX: number, winY: number, stats: number): number;
+  spectrumRadial(plan: number, bins: number, sx: number, sy: number, sums: number, counts: number): number;
+  spectrumRing(plan: number, rLo: number, rHi: number, sx: number, sy: number, angleBins: number, hist: number, moments: number): number;
+  spectrumPowerCentred(plan: number, scale: number, out: number): number;
+  spectrumLoadBinary(src: number, n: number, dst: number): number;
   [more: string]: unknown;
 }
 
