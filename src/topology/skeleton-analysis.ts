@@ -128,13 +128,15 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
+  let badAt = -1;
   for (let i = 0; i < n; i++) {
     const d = labels[i]! - 1;
-    if (d < 0 || d >= count) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[i]} at pixel ${i}`);
+    if (d < 0 || d >= count) { badAt = i; break; }
     area[d]!++;
     domainPhase[d] = phase[i]! ? 1 : 0;
     if (distance[i]! > maxD[d]!) maxD[d] = distance[i]!;
   }
+  if (badAt >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[badAt]} at pixel ${badAt}`);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   return {
     options: o, columns,

@@ -114,11 +114,13 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     return d === 2 || d === v;
   };
   const skelPixels: number[] = [];
+  const fixedDiag = rule === 2 ? -1 : rule === 0 ? 1 : 0; // phase whose diagonals join (fixed rules)
   for (let y = 0; y < h; y++) {
     const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
     const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
+    const row = y * w;
     for (let x = 0; x < w; x++) {
-      const i = y * w + x;
+      const i = row + x;
       if (!sk[i]) continue;
       skelPixels.push(i);
       const v = phase[i]!;
@@ -126,18 +128,19 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
       const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
       let d = 0;
       const base = 8 * i;
-      const add = (j: number) => {
-        if (sk[j] && phase[j] === v) nbr[base + d++] = j;
-      };
-      if (xp >= 0) add(y * w + xp);
-      if (ym >= 0) add(ym * w + x);
-      if (xm >= 0) add(y * w + xm);
-      if (yp >= 0) add(yp * w + x);
+      let j: number;
+      if (xp >= 0) { j = row + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+      if (ym >= 0) { j = ym * w + x; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+      if (xm >= 0) { j = row + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+      if (yp >= 0) { j = yp * w + x; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
       // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y).
-      if (ym >= 0 && xp >= 0 && joinsDiag(v, ym * w + x)) add(ym * w + xp);
-      if (ym >= 0 && xm >= 0 && joinsDiag(v, ym * w + xm)) add(ym * w + xm);
-      if (yp >= 0 && xm >= 0 && joinsDiag(v, y * w + xm)) add(yp * w + xm);
-      if (yp >= 0 && xp >= 0 && joinsDiag(v, i)) add(yp * w + xp);
+      const all = fixedDiag === v;
+      if (fixedDiag < 0 || all) {
+        if (ym >= 0 && xp >= 0 && (all || joinsDiag(v, ym * w + x))) { j = ym * w + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+        if (ym >= 0 && xm >= 0 && (all || joinsDiag(v, ym * w + xm))) { j = ym * w + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+        if (yp >= 0 && xm >= 0 && (all || joinsDiag(v, row + xm))) { j = yp * w + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+        if (yp >= 0 && xp >= 0 && (all || joinsDiag(v, i))) { j = yp * w + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
+      }
       deg[i] = d;
     }
   }
