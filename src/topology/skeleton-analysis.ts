@@ -1,6 +1,7 @@
 // Skeletons of every domain of a labeled frame: thinning (Wasm), the pruned skeleton graph,
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
+import { kernels } from "../wasm/instance";
 import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
@@ -112,7 +113,12 @@ export function skeletonWorkspace(width: number, height: number): SkeletonWorksp
  */
 export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions = {}, workspace?: SkeletonWorkspace): SkeletonAnalysis {
   const o = resolveSkeletonOptions(options);
-  const { width, height, phase, labels, count } = frame;
+  const { width, height, count } = frame;
+  // Views into Wasm memory (FrameAnalyzer.phase() / labels()) would be detached if the skeleton
+  // workspace grows memory: copy them first.
+  const mem = kernels().memory.buffer;
+  const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
+  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
   const n = width * height;
   if (phase.length !== n || labels.length !== n) {
     throw new Error(`frame: expected phase and labels of ${width} x ${height} = ${n} pixels, got ${phase.length} and ${labels.length}`);
