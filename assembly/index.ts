@@ -4,5 +4,7 @@ export { setGeometry, setBuffers } from "./common";
 export * from "./threshold";
 export * from "./label";
 export * from "./measure";
+export * from "./thin";
+export * from "./edt";
 export * from "./fft";
 export * from "./spectrum";

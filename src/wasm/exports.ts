@@ -41,3 +41,12 @@ export interface KernelExports {
   structureTensorSums(src: number, w: number, h: number, periodic: number, out: number): number;
   [more: string]: unknown;
 }
+
+// Skeleton kernels (assembly/thin.ts, assembly/edt.ts).
+export interface SkeletonKernelExports {
+  bindThin(skeleton: number, list: number, candidates: number, table: number): void;
+  thinPhase(phase: number): number;
+  thinFinish(n: number): void;
+  thinByDistance(distance: number, counts: number, levels: number): number;
+  distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
+}

@@ -1,0 +1,153 @@
+// Skeletons of every domain of a labeled frame: thinning (Wasm), the pruned skeleton graph,
+// the per-domain columns and kinds, and the per-phase summaries.
+import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
+import { kernels } from "../wasm/instance";
+import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
+import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
+
+export type SkeletonBoundary = "open" | "periodic" | "periodic-x" | "periodic-y";
+
+export interface SkeletonOptions {
+  /** Sides of the frame, as used for labeling. @default 'open' */
+  boundary?: SkeletonBoundary;
+  /** Connectivity of the up phase (down gets the other), as used for labeling. @default 8 */
+  connectivity?: 8 | 4 | "saddle";
+  /** Saddle decisions per quad (1 up joins, 0 down joins, 2 elsewhere); required with 'saddle'. */
+  quads?: Uint8Array;
+  /** A terminal branch shorter than spurFactor x the half-width at its junction is pruned. @default 3 */
+  spurFactor?: number;
+  /** Junctions joined by a branch shorter than this x the local width are one junction. @default 1 */
+  junctionMergeFactor?: number;
+  /** Below this skeleton length / mean width an unbranched domain is a bubble. @default 1 */
+  bubbleMaxAspect?: number;
+  /** Length of one pixel in the output unit. @default 1 */
+  pixelSize?: number;
+  /** Thinning order (see ThinGeometry.order). @default 'directional' */
+  thinning?: "directional" | "distance";
+}
+
+export interface ResolvedSkeletonOptions {
+  boundary: SkeletonBoundary;
+  connectivity: 8 | 4 | "saddle";
+  spurFactor: number;
+  junctionMergeFactor: number;
+  bubbleMaxAspect: number;
+  pixelSize: number;
+  thinning: "directional" | "distance";
+}
+
+/** A labeled frame: phase map, labels 1..count (same boundary and connectivity). */
+export interface LabeledFrame {
+  width: number;
+  height: number;
+  phase: Uint8Array;
+  labels: Int32Array;
+  count: number;
+}
+
+export interface SkeletonAnalysis {
+  options: ResolvedSkeletonOptions;
+  columns: SkeletonColumns;
+  up: PhaseSkeletonSummary;
+  down: PhaseSkeletonSummary;
+  /** 1 on the skeleton of each pixel's phase, as thinned (copy). */
+  skeleton: Uint8Array;
+  /** 1 on the skeleton pixels that survive spur pruning. */
+  pruned: Uint8Array;
+  /** Distance to the other phase, px (copy). */
+  distance: Float32Array;
+  graph: SkeletonGraph;
+}
+
+const KNOWN = new Set(["boundary", "connectivity", "quads", "spurFactor", "junctionMergeFactor", "bubbleMaxAspect", "pixelSize", "thinning"]);
+
+function positive(name: string, v: number): number {
+  if (typeof v !== "number" || !Number.isFinite(v) || v < 0) {
+    throw new Error(`options.${name}: expected a finite number >= 0, got ${String(v)}`);
+  }
+  return v;
+}
+
+export function resolveSkeletonOptions(o: SkeletonOptions = {}): ResolvedSkeletonOptions {
+  for (const key of Object.keys(o)) {
+    if (!KNOWN.has(key)) throw new Error(`options.${key}: unknown option (known: ${[...KNOWN].join(", ")})`);
+  }
+  const boundary = o.boundary ?? "open";
+  if (!["open", "periodic", "periodic-x", "periodic-y"].includes(boundary)) {
+    throw new Error(`options.boundary: expected 'open', 'periodic', 'periodic-x' or 'periodic-y', got ${String(boundary)}`);
+  }
+  const connectivity = o.connectivity ?? 8;
+  if (connectivity !== 8 && connectivity !== 4 && connectivity !== "saddle") {
+    throw new Error(`options.connectivity: expected 8, 4 or 'saddle', got ${String(connectivity)}`);
+  }
+  const pixelSize = positive("pixelSize", o.pixelSize ?? 1);
+  if (pixelSize === 0) throw new Error("options.pixelSize: expected a number > 0, got 0");
+  return {
+    boundary, connectivity,
+    spurFactor: positive("spurFactor", o.spurFactor ?? 3),
+    junctionMergeFactor: positive("junctionMergeFactor", o.junctionMergeFactor ?? 1),
+    bubbleMaxAspect: positive("bubbleMaxAspect", o.bubbleMaxAspect ?? 1),
+    pixelSize,
+    thinning: o.thinning === "distance" ? "distance" : o.thinning === undefined || o.thinning === "directional" ? "directional" : bad("thinning", o.thinning),
+  };
+}
+
+function bad(name: string, v: unknown): never {
+  throw new Error(`options.${name}: expected 'directional' or 'distance', got ${String(v)}`);
+}
+
+let shared: SkeletonWorkspace | undefined;
+
+/** Skeleton workspace for frames of one shape (reused by `analyzeSkeletons` between equal shapes). */
+export function skeletonWorkspace(width: number, height: number): SkeletonWorkspace {
+  if (!shared || shared.width !== width || shared.height !== height) {
+    shared?.dispose();
+    shared = new SkeletonWorkspace(width, height);
+  }
+  return shared;
+}
+
+/**
+ * Thins both phases, builds and prunes every domain's skeleton graph, and classifies each domain
+ * as bubble, stripe or labyrinth. `frame.labels` must come from the same boundary and connectivity.
+ */
+export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions = {}, workspace?: SkeletonWorkspace): SkeletonAnalysis {
+  const o = resolveSkeletonOptions(options);
+  const { width, height, count } = frame;
+  // Views into Wasm memory (FrameAnalyzer.phase() / labels()) would be detached if the skeleton
+  // workspace grows memory: copy them first.
+  const mem = kernels().memory.buffer;
+  const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
+  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
+  const n = width * height;
+  if (phase.length !== n || labels.length !== n) {
+    throw new Error(`frame: expected phase and labels of ${width} x ${height} = ${n} pixels, got ${phase.length} and ${labels.length}`);
+  }
+  const rule: ConnectivityRule = o.connectivity === 8 ? 0 : o.connectivity === 4 ? 1 : 2;
+  const periodicX = o.boundary === "periodic" || o.boundary === "periodic-x";
+  const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
+  const ws = workspace ?? skeletonWorkspace(width, height);
+  const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
+  const skeleton = r.skeleton.slice(), distance = r.distance.slice();
+  const graph = skeletonGraph(
+    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads },
+    { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
+  );
+  const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
+  let badAt = -1;
+  for (let i = 0; i < n; i++) {
+    const d = labels[i]! - 1;
+    if (d < 0 || d >= count) { badAt = i; break; }
+    area[d]!++;
+    domainPhase[d] = phase[i]! ? 1 : 0;
+    if (distance[i]! > maxD[d]!) maxD[d] = distance[i]!;
+  }
+  if (badAt >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[badAt]} at pixel ${badAt}`);
+  const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
+  return {
+    options: o, columns,
+    up: summarizePhase(columns, domainPhase, area, 1, n, o.pixelSize),
+    down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
+    skeleton, pruned: prunedSkeleton(graph), distance, graph,
+  };
+}
