@@ -8,7 +8,7 @@ export type PlotSpec = Record<string, unknown>;
 
 /** Size of one plot panel in CSS pixels. */
 export interface PlotSize {
-  /** @default 560 */
+  /** @default 480 */
   width?: number;
   /** @default 300 */
   height?: number;
@@ -72,7 +72,7 @@ export interface LoopPlotInput extends PlotSize {
 
 /** The loop m(H): both major branches in colour, reversal curves as thin grey lines under them. */
 export function loopPlotSpec(input: LoopPlotInput): PlotSpec {
-  const width = input.width ?? 560, height = input.height ?? 300;
+  const width = input.width ?? 480, height = input.height ?? 300;
   const major = seriesRows(input.major.map((b) => ({ name: `major ${b.direction}`, field: b.field, values: b.magnetization })));
   const curves = seriesRows((input.reversalCurves ?? []).map((c) => ({
     name: `Ha = ${fmt(c.reversalField)}`, field: c.field, values: c.magnetization,
@@ -121,7 +121,7 @@ export interface FieldSeriesInput extends PlotSize {
 
 /** Quantities against field: one colour per series, one dash pattern per group (branch). */
 export function fieldSeriesSpec(input: FieldSeriesInput): PlotSpec {
-  const width = input.width ?? 560, height = input.height ?? 260;
+  const width = input.width ?? 480, height = input.height ?? 260;
   const rows = seriesRows(input.series);
   const names = [...new Set(input.series.map((s) => s.name))];
   const groups = [...new Set(input.series.map((s) => s.group ?? ""))];
@@ -134,7 +134,9 @@ export function fieldSeriesSpec(input: FieldSeriesInput): PlotSpec {
     y: { field: "value", type: "quantitative", title: input.yTitle },
     color, order: { field: "order" }, detail: { field: "group" },
   };
-  if (groups.length > 1) {
+  // Dashes only when they say something the colours do not (groups other than the series).
+  const sameAsSeries = groups.length === names.length && input.series.every((x) => (x.group ?? "") === x.name);
+  if (groups.length > 1 && !sameAsSeries) {
     encoding.strokeDash = { field: "group", type: "nominal", title: input.groupTitle ?? "branch", scale: { domain: groups, range: groups.map((_, k) => (k === 0 ? [1, 0] : [5, 3])) } };
   }
   return {
@@ -165,7 +167,7 @@ export function branchTopologySpec(input: { fieldUnit: string; branches: Topolog
       series.push({ name: "up", group: b.label, field: b.field, values: up });
       series.push({ name: "down", group: b.label, field: b.field, values: down });
     }
-    const s = fieldSeriesSpec({ fieldUnit: input.fieldUnit, series, yTitle, colors: PHASE_COLORS, width: input.width, height: input.height ?? 220 });
+    const s = fieldSeriesSpec({ fieldUnit: input.fieldUnit, series, yTitle, colors: PHASE_COLORS, width: input.width, height: input.height ?? 180 });
     delete s.$schema; delete s.config;
     s.title = yTitle;
     return s;
@@ -191,6 +193,13 @@ export interface ForcHeatmapInput extends PlotSize {
   rho: ArrayLike<number | null>;
   smoothingFactor?: number;
   title?: string;
+  /** Legend title of the colour. @default "rho" */
+  quantity?: string;
+  /**
+   * `"diverging"`: a scale centred on 0 (for rho); `"sequential"`: from the lowest to the highest
+   * value (for counts). @default "diverging"
+   */
+  colorScale?: "diverging" | "sequential";
 }
 
 /**
@@ -198,6 +207,11 @@ export interface ForcHeatmapInput extends PlotSize {
  * diverging colour scale centred on 0) with the line Hb = Ha. Points without rho are left blank.
  */
 export function forcHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
+  return gridHeatmapSpec(input);
+}
+
+/** Any column on the (Ha, Hb) grid as a heatmap (the FORC heatmap's layout). */
+export function gridHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
   const { reversalFields: ha, fields: hb } = input;
   const nb = hb.length;
   const dhb = nb > 1 ? hb[1]! - hb[0]! : 1;
@@ -232,8 +246,10 @@ export function forcHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
         y: { field: "ha0", type: "quantitative", title: `reversal field Ha${unit}`, scale: { zero: false, nice: false } },
         y2: { field: "ha1" },
         color: {
-          field: "rho", type: "quantitative", title: "rho",
-          scale: { scheme: "purpleorange", domain: [-extent, extent], domainMid: 0 },
+          field: "rho", type: "quantitative", title: input.quantity ?? "rho",
+          scale: input.colorScale === "sequential"
+            ? { scheme: "viridis" }
+            : { scheme: "purpleorange", domain: [-extent, extent], domainMid: 0 },
         },
       },
       name: "forc-cells",
@@ -251,7 +267,7 @@ export function forcHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
   return {
     $schema: SCHEMA,
     title: input.title ?? `FORC distribution rho(Ha, Hb)${sf}`,
-    width: input.width ?? 420, height: input.height ?? 360, config: PLOT_CONFIG,
+    width: input.width ?? 380, height: input.height ?? 320, config: PLOT_CONFIG,
     layer: layers,
   };
 }
