@@ -10,7 +10,7 @@ export interface MetricRow {
   quantity: string;
   /** `null` when it could not be computed (see `reason`). */
   value: number | null;
-  /** What the number is in: `field`, `m`, `field*m`, `1`. */
+  /** What the number is in: the field unit, the loop column, their product, or `1`. */
   unit: string;
   reason: string;
 }
@@ -26,19 +26,20 @@ function row(quantity: string, o: Outcome<number>, unit: string): MetricRow {
 }
 
 /** Loop metrics in table order, each with its unit and, when missing, the reason. */
-export function loopMetricRows(m: LoopMetrics, fieldUnit = "field"): MetricRow[] {
+export function loopMetricRows(m: LoopMetrics, fieldUnit = "field", column = "magnetization"): MetricRow[] {
   const f = fieldUnit || "field";
+  const q = column;
   return [
     row("coercive_field", m.coerciveField, f),
     row("loop_shift", m.loopShift, f),
     row("coercive_field_descending", m.descending.coerciveField, f),
     row("coercive_field_ascending", m.ascending.coerciveField, f),
-    row("remanence", m.remanence, "m"),
-    row("remanence_descending", m.descending.remanence, "m"),
-    row("remanence_ascending", m.ascending.remanence, "m"),
-    row("saturation", m.saturation, "m"),
+    row("remanence", m.remanence, q),
+    row("remanence_descending", m.descending.remanence, q),
+    row("remanence_ascending", m.ascending.remanence, q),
+    row("saturation", m.saturation, q),
     row("squareness", m.squareness, "1"),
-    row("loop_area", m.loopArea, `${f}*m`),
+    row("loop_area", m.loopArea, `${f}*${q}`),
     row("nucleation_field_descending", m.descending.nucleationField, f),
     row("saturation_field_descending", m.descending.saturationField, f),
     row("nucleation_field_ascending", m.ascending.nucleationField, f),
@@ -52,10 +53,10 @@ export function metricRowsCsv(rows: MetricRow[]): string {
 }
 
 /** Loop metrics as a readable JSON object (no per-point arrays). */
-export function loopMetricsJson(m: LoopMetrics, fieldUnit: string) {
+export function loopMetricsJson(m: LoopMetrics, fieldUnit: string, column = "magnetization") {
   return {
     fieldUnit,
-    metrics: Object.fromEntries(loopMetricRows(m, fieldUnit).map((r) => [r.quantity, r.value === null ? { value: null, reason: r.reason } : r.value])),
+    metrics: Object.fromEntries(loopMetricRows(m, fieldUnit, column).map((r) => [r.quantity, r.value === null ? { value: null, reason: r.reason } : r.value])),
     branches: {
       ...m.branches,
       descending: { frames: m.descending.frames, fieldRange: m.descending.fieldRange, zeroCrossings: m.descending.zeroCrossings },

@@ -99,10 +99,10 @@ export async function runLoop(argv: string[]): Promise<number> {
   const t = readCsv(file);
   const metrics = tableLoopMetrics(t, fieldColumn, column);
   const unit = fieldUnitOf(fieldColumn);
-  const rows = loopMetricRows(metrics, unit);
+  const rows = loopMetricRows(metrics, unit, column);
   if (values.out !== undefined) {
     const dir = resolve(values.out as string);
-    const json = { tool: "domtopo", version: VERSION, command: "loop", input: file, fieldColumn, column, ...loopMetricsJson(metrics, unit) };
+    const json = { tool: "domtopo", version: VERSION, command: "loop", input: file, fieldColumn, column, ...loopMetricsJson(metrics, unit, column) };
     commitAll([
       [join(dir, "loop-metrics.json"), JSON.stringify(json, null, 2) + "\n"],
       [join(dir, "loop-metrics.csv"), metricRowsCsv(rows)],

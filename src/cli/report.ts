@@ -304,7 +304,7 @@ async function loopSections(loopDir: string, svg: (s: PlotSpec) => Promise<strin
   if (metricsJson?.metrics) {
     const rows: MetricRow[] = Object.entries(metricsJson.metrics as Record<string, any>).map(([q, v]) => ({
       quantity: q, value: typeof v === "number" ? v : null, reason: typeof v === "number" ? "" : String(v?.reason ?? ""),
-      unit: /field|shift|area/.test(q) ? (q === "loop_area" ? `${unit}*m` : unit) : q === "squareness" ? "1" : "m",
+      unit: /field|shift|area/.test(q) ? (q === "loop_area" ? `${unit}*magnetization` : unit) : q === "squareness" ? "1" : "magnetization",
     }));
     tables.push(metricsTable(rows, "Loop metrics of the major loop"));
   }
@@ -324,9 +324,9 @@ async function loopSections(loopDir: string, svg: (s: PlotSpec) => Promise<strin
   if (Array.isArray(loop.excursions)) {
     tables.push({
       caption: "Excursions of the reversal curves from the major ascending branch",
-      head: ["curve", `Ha (${unit})`, `leaves at (${unit})`, `rejoins at (${unit})`, "largest deviation", `area (${unit}*m)`],
+      head: ["curve", `Ha (${unit})`, `leaves at (${unit})`, `rejoins at (${unit})`, "largest deviation of m", `area (${unit})`, "note"],
       numeric: [0, 1, 2, 3, 4, 5],
-      rows: loop.excursions.map((e: any, k: number) => [k + 1, cellText(e.reversalField), cellText(e.leaveField), cellText(e.rejoinField), cellText(e.maxDeviation), cellText(e.area)]),
+      rows: loop.excursions.map((e: any, k: number) => [k + 1, cellText(e.reversalField), cellText(e.leaveField), cellText(e.rejoinField), cellText(e.maxDeviation), cellText(e.area), cellText(e.reason)]),
     });
   }
   return [{

@@ -8,7 +8,7 @@ export type PlotSpec = Record<string, unknown>;
 
 /** Size of one plot panel in CSS pixels. */
 export interface PlotSize {
-  /** @default 480 */
+  /** @default 440 */
   width?: number;
   /** @default 300 */
   height?: number;
@@ -31,7 +31,7 @@ export const PLOT_CONFIG = {
   font: "Helvetica, Arial, sans-serif",
   view: { stroke: null },
   axis: { gridColor: "#e4e7ec", domainColor: "#667085", tickColor: "#667085", labelColor: "#344054", titleColor: "#101828", titleFontWeight: 600 },
-  legend: { labelColor: "#344054", titleColor: "#101828" },
+  legend: { labelColor: "#344054", titleColor: "#101828", orient: "top" },
   title: { anchor: "start", fontSize: 14, fontWeight: 600, color: "#101828" },
 } as const;
 
@@ -72,7 +72,7 @@ export interface LoopPlotInput extends PlotSize {
 
 /** The loop m(H): both major branches in colour, reversal curves as thin grey lines under them. */
 export function loopPlotSpec(input: LoopPlotInput): PlotSpec {
-  const width = input.width ?? 480, height = input.height ?? 300;
+  const width = input.width ?? 440, height = input.height ?? 300;
   const major = seriesRows(input.major.map((b) => ({ name: `major ${b.direction}`, field: b.field, values: b.magnetization })));
   const curves = seriesRows((input.reversalCurves ?? []).map((c) => ({
     name: `Ha = ${fmt(c.reversalField)}`, field: c.field, values: c.magnetization,
@@ -121,7 +121,7 @@ export interface FieldSeriesInput extends PlotSize {
 
 /** Quantities against field: one colour per series, one dash pattern per group (branch). */
 export function fieldSeriesSpec(input: FieldSeriesInput): PlotSpec {
-  const width = input.width ?? 480, height = input.height ?? 260;
+  const width = input.width ?? 440, height = input.height ?? 260;
   const rows = seriesRows(input.series);
   const names = [...new Set(input.series.map((s) => s.name))];
   const groups = [...new Set(input.series.map((s) => s.group ?? ""))];
@@ -204,7 +204,8 @@ export interface ForcHeatmapInput extends PlotSize {
 
 /**
  * The FORC distribution rho(Ha, Hb) as a heatmap (rectangles centred on the grid points, a
- * diverging colour scale centred on 0) with the line Hb = Ha. Points without rho are left blank.
+ * diverging colour scale centred on 0) with the line Hb = Ha over the range of Ha. Points without rho
+ * are left blank.
  */
 export function forcHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
   return gridHeatmapSpec(input);
@@ -230,8 +231,8 @@ export function gridHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
         ha: ha[i]!, hb: hb[j]!, rho: v,
         ha0: ha[i]! - half(i, -1), ha1: ha[i]! + half(i, 1), hb0: hb[j]! - dhb / 2, hb1: hb[j]! + dhb / 2,
       });
-      lo = Math.min(lo, hb[j]! - dhb / 2, ha[i]! - half(i, -1));
-      hi = Math.max(hi, hb[j]! + dhb / 2, ha[i]! + half(i, 1));
+      lo = Math.min(lo, ha[i]! - half(i, -1));
+      hi = Math.max(hi, ha[i]! + half(i, 1));
     }
   }
   const unit = input.fieldUnit ? ` (${input.fieldUnit})` : "";
@@ -246,7 +247,7 @@ export function gridHeatmapSpec(input: ForcHeatmapInput): PlotSpec {
         y: { field: "ha0", type: "quantitative", title: `reversal field Ha${unit}`, scale: { zero: false, nice: false } },
         y2: { field: "ha1" },
         color: {
-          field: "rho", type: "quantitative", title: input.quantity ?? "rho",
+          field: "rho", type: "quantitative", title: input.quantity ?? "rho", legend: { orient: "right" },
           scale: input.colorScale === "sequential"
             ? { scheme: "viridis" }
             : { scheme: "purpleorange", domain: [-extent, extent], domainMid: 0 },

@@ -44,7 +44,7 @@ header h1 { margin: 0; font-size: 22px; }
 header p { margin: 4px 0 0; color: var(--muted); }
 nav { padding: 8px 32px; background: var(--wash); border-bottom: 1px solid var(--line); font-size: 13px; }
 nav a { color: var(--accent); margin-right: 14px; text-decoration: none; }
-main { padding: 8px 32px 32px; max-width: 1240px; }
+main { padding: 8px 32px 32px; max-width: 1400px; }
 section { margin-top: 22px; }
 h2 { font-size: 17px; margin: 0 0 6px; padding-bottom: 4px; border-bottom: 1px solid var(--line); }
 .synthetic { margin: 16px 32px 0; padding: 10px 14px; border-left: 4px solid #c8741a; background: #fff7ed; }
@@ -52,15 +52,15 @@ h2 { font-size: 17px; margin: 0 0 6px; padding-bottom: 4px; border-bottom: 1px s
 .figures { display: flex; flex-wrap: wrap; gap: 18px; align-items: flex-start; }
 .figures svg { max-width: 100%; height: auto; }
 table { border-collapse: collapse; margin: 8px 0 4px; font-size: 13px; }
-caption { text-align: left; font-weight: 600; padding-bottom: 4px; }
+caption { text-align: left; font-weight: 600; padding-bottom: 4px; white-space: nowrap; }
 th, td { border-bottom: 1px solid var(--line); padding: 3px 10px 3px 0; text-align: left; vertical-align: top; }
 th { color: var(--muted); font-weight: 600; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
 td code { font-size: 12px; }
 .tables { display: flex; flex-wrap: wrap; gap: 28px; align-items: flex-start; }
 .thumbs { display: flex; flex-wrap: wrap; gap: 12px; }
-.thumbs figure { margin: 0; width: 150px; font-size: 12px; color: var(--muted); }
-.thumbs img { width: 150px; height: 150px; image-rendering: pixelated; border: 1px solid var(--line); display: block; }
+.thumbs figure { margin: 0; width: 132px; font-size: 12px; color: var(--muted); }
+.thumbs img { width: 132px; height: 132px; image-rendering: pixelated; border: 1px solid var(--line); display: block; }
 footer { padding: 12px 32px; color: var(--muted); font-size: 12px; border-top: 1px solid var(--line); }
 `;
 
