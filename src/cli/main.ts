@@ -16,11 +16,15 @@ import { AnalyzerCache, runFrameJob } from "../sequence/job";
 import { resolveFrameOptions } from "../topology/options";
 import type { Frame } from "../types";
 import { VERSION } from "../version";
+import { UsageError } from "./usage";
+import { runDemoLoop } from "./demo-loop";
+import { runLoop, runForc, LOOP_HELP, FORC_HELP } from "./loop";
+import { buildReport, runReport, REPORT_HELP } from "./report";
+import { fmt } from "./loop-tables";
 
 /** Exit codes: 0 done, 1 the run failed, 2 bad command line, 3 done but some frames failed. */
 export const EXIT = { ok: 0, failed: 1, usage: 2, someFramesFailed: 3 } as const;
 
-class UsageError extends Error {}
 
 const FRAME_OPTIONS_HELP = `Frame options:
   --threshold L         level between down and up: a number (sample units), otsu, or zero
@@ -40,6 +44,9 @@ Usage: domtopo <command> [options]
 Commands:
   demo                  generate the built-in synthetic field sweep and analyze every frame
   analyze <files...>    analyze PNG frames (one row per frame)
+  loop <frames.csv>     loop metrics of a per-frame table (coercive field, remanence, area, ...)
+  forc <frames.csv>     FORC distribution of reversal curves in a per-frame table
+  report <run folder>   one self-contained HTML report of a run folder
   help [command]        show help for a command
 
 Run 'domtopo <command> --help' for the options of a command.
@@ -62,7 +69,17 @@ Options:
 Writes DIR/frames/*.png, DIR/fields.csv (field per frame), DIR/frames.csv (one row per frame),
 DIR/domains.csv (one row per domain and frame) and DIR/run.json (scenario and options).
 
+Then a second, hysteretic synthetic sweep (an invented lattice of square hysterons on a
+Gaussian random field, 128 x 128 px): a major loop and first-order reversal curves, analyzed
+frame by frame into DIR/loop/frames.csv (segment, reversal field, field, per-frame columns), with
+DIR/loop/loop.json (loop metrics, FORC distribution at SF 2, excursions from the major loop,
+up domains and Euler number on the (Ha, Hb) grid) and the same as CSV (loop-metrics.csv,
+forc.csv, excursions.csv, topology-map.csv). Last, DIR/report.html shows it all.
+
 ${FRAME_OPTIONS_HELP}`,
+  loop: LOOP_HELP,
+  forc: FORC_HELP,
+  report: REPORT_HELP,
   analyze: `Usage: domtopo analyze <frames...> [options]
 
 Analyzes every frame of the inputs, in order: PNG files (8/16-bit grey, colour reduced to luma),
@@ -252,6 +269,24 @@ async function runDemo(argv: string[]): Promise<number> {
     lines.push("", `Wrote ${join(out, "frames.csv")}, domains.csv, fields.csv, run.json and frames/*.png`);
     process.stdout.write(lines.join("\n") + "\n");
   }
+  // The hysteretic sweep (major loop and reversal curves), then the report of the whole folder.
+  const loop = runDemoLoop(out, options);
+  const html = await buildReport(out);
+  writeFileAtomic(join(out, "report.html"), html);
+  if (!quiet) {
+    const v = (o: { value?: number }) => (o.value === undefined ? "-" : fmt(o.value));
+    const lm = loop.metrics;
+    process.stdout.write([
+      "",
+      loop.scenario,
+      "",
+      `${loop.frames} frames (major loop and ${loop.reversalCurves} reversal curves) analyzed in ${(loop.analysisMs / 1000).toFixed(2)} s: ` +
+        `Hc = ${v(lm.coerciveField)} mT, Mr = ${v(lm.remanence)}, Ms = ${v(lm.saturation)}, loop area = ${v(lm.loopArea)} mT, ` +
+        `FORC (SF ${loop.forc.options.smoothingFactor}) at ${loop.forc.counts.ok} points`,
+      `Wrote ${join(out, "loop", "frames.csv")}, loop.json, loop-metrics.csv, forc.csv, excursions.csv, topology-map.csv`,
+      `Report: ${join(out, "report.html")} (synthetic data)`,
+    ].join("\n") + "\n");
+  }
   return EXIT.ok;
 }
 
@@ -391,8 +426,14 @@ export async function main(argv: string[]): Promise<number> {
         return await runDemo(rest);
       case "analyze":
         return await runAnalyze(rest);
+      case "loop":
+        return await runLoop(rest);
+      case "forc":
+        return await runForc(rest);
+      case "report":
+        return await runReport(rest);
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(command)} (commands: demo, analyze, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(command)} (commands: demo, analyze, loop, forc, report, help)`);
     }
   } catch (err) {
     if (err instanceof UsageError) {
