@@ -1,6 +1,6 @@
 import { describe, it, expect, beforeAll } from "vitest";
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, readFileSync, existsSync, writeFileSync, readdirSync } from "node:fs";
+import { mkdtempSync, readFileSync, existsSync, writeFileSync, readdirSync, mkdirSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 
@@ -76,11 +76,31 @@ describe("domtopo analyze", () => {
     const good = join(dir, "demo", "frames", "frame-0000.png");
     const out = join(dir, "again");
     const before = readFileSync(join(out, "frames.csv"), "utf8");
-    const r = run(["analyze", good, bad, "--out", out]);
+    const r = run(["analyze", good, bad, "--out", out, "--strict"]);
     expect(r.code).toBe(1);
-    expect(r.err).toMatch(/bad\.png: not a readable PNG/);
+    expect(r.err).toMatch(/bad\.png: not a PNG, TIFF or \.npy file by its first bytes/);
     expect(readFileSync(join(out, "frames.csv"), "utf8")).toBe(before);
     expect(readdirSync(out).filter((f) => f.includes(".tmp"))).toEqual([]);
+  });
+
+  it("reports a frame that fails to decode, goes on, and exits with code 3", () => {
+    const good = readFileSync(join(dir, "demo", "frames", "frame-0001.png"));
+    const folder = join(dir, "broken");
+    mkdirSync(folder, { recursive: true });
+    writeFileSync(join(folder, "a0.png"), good);
+    writeFileSync(join(folder, "a1.png"), good.subarray(0, Math.floor(good.length / 2))); // truncated data
+    writeFileSync(join(folder, "a2.png"), good);
+    const out = join(dir, "broken-out");
+    const r = run(["analyze", folder, "--out", out, "--workers", "2"]);
+    expect(r.code).toBe(3);
+    expect(r.err).toMatch(/a1\.png/);
+    const rows = parseCsv(readFileSync(join(out, "frames.csv"), "utf8"));
+    expect(rows.map((x) => x.frame)).toEqual(["0", "2"]);
+    const record = JSON.parse(readFileSync(join(out, "run.json"), "utf8"));
+    expect(record.failures).toHaveLength(1);
+    expect(record.failures[0].frame).toBe(1);
+    expect(record.failures[0].message).toMatch(/a1\.png/);
+    expect(run(["analyze", folder, "--out", join(dir, "strict-out"), "--strict"]).code).toBe(1);
   });
 
   it("answers bad command lines with exit code 2 and a reason", () => {
@@ -94,6 +114,6 @@ describe("domtopo analyze", () => {
     expect(run(["--help"]).code).toBe(0);
     const missing = run(["analyze", join(dir, "nope.png")]);
     expect(missing.code).toBe(1);
-    expect(missing.err).toMatch(/nope\.png: cannot read \(ENOENT\)/);
+    expect(missing.err).toMatch(/nope\.png: no such file or folder/);
   });
 });

@@ -100,13 +100,23 @@ export function listFrameFiles(inputs: string | readonly string[]): string[] {
     if (hasWildcard(name)) {
       if (hasWildcard(dir)) throw new Error(`${input}: wildcards are supported in the file-name part only`);
       files.push(...framesInFolder(dir, globToRegExp(name), input));
-    } else if (statSync(input).isDirectory()) {
+    } else if (statOf(input).isDirectory()) {
       files.push(...framesInFolder(input, null, input));
     } else {
       files.push(input);
     }
   }
   return files;
+}
+
+function statOf(path: string) {
+  try {
+    return statSync(path);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") throw new Error(`${path}: no such file or folder`);
+    throw new Error(`${path}: cannot read (${code ?? (err as Error).message})`);
+  }
 }
 
 function fileContainer(path: string, keep: { tiff: { path: string; stack: TiffStack } | null }): FrameContainer {
@@ -152,9 +162,19 @@ function fileContainer(path: string, keep: { tiff: { path: string; stack: TiffSt
 
 /**
  * A frame source over files, folders and file-name patterns (see {@link listFrameFiles}).
- * Headers are read now, so an unknown or damaged header fails here, naming the file.
+ * Headers are read now; a file with an unknown or damaged header counts as one frame whose read
+ * fails with the error naming the file.
  */
 export function openFrameFiles(inputs: string | readonly string[]): FrameSource {
   const keep: { tiff: { path: string; stack: TiffStack } | null } = { tiff: null };
-  return sourceFromContainers(listFrameFiles(inputs).map((p) => fileContainer(p, keep)));
+  return sourceFromContainers(listFrameFiles(inputs).map((p) => {
+    try {
+      return fileContainer(p, keep);
+    } catch (err) {
+      // A file whose header cannot be read stands for one frame that fails when read, so that a
+      // damaged file in a long series is reported by its frame and does not stop the run.
+      const error = err instanceof Error ? err : new Error(String(err));
+      return { name: p, count: 1, unit: "frame", read: () => { throw error; } } satisfies FrameContainer;
+    }
+  }));
 }

@@ -75,9 +75,14 @@ describe("frame sources over files", () => {
     expect(Array.from((await source.read(1)).data)).toEqual([9, 9, 9, 9]);
   });
 
-  it("refuses a frame file whose content is not a known format, naming it", () => {
-    expect(() => openFrameFiles(join(dir, "broken.png"))).toThrow(`${join(dir, "broken.png")}: not a PNG, TIFF or .npy file by its first bytes`);
-    expect(() => openFrameFiles(dir)).toThrow(/broken\.png: not a PNG, TIFF or \.npy file/);
+  it("counts a file of unknown content as one frame that fails when read, naming it", async () => {
+    const one = openFrameFiles(join(dir, "broken.png"));
+    expect(one.count).toBe(1);
+    await expect(one.read(0)).rejects.toThrow(`${join(dir, "broken.png")}: not a PNG, TIFF or .npy file by its first bytes`);
+    const all = openFrameFiles(dir);
+    const k = Array.from({ length: all.count }, (_, i) => all.describe(i)).findIndex((d) => d.includes("broken.png"));
+    expect(k).toBeGreaterThanOrEqual(0);
+    await expect(all.read(k)).rejects.toThrow(/broken\.png: not a PNG, TIFF or \.npy file/);
   });
 
   it("reads the last frame of a 2.4 GiB .npy stack by positioned reads, never loading the file", async () => {
