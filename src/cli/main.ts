@@ -9,6 +9,8 @@ import { demoSweep } from "../demo/sweep";
 import { AtomicWriter, writeFileAtomic } from "../node/atomic";
 import { Progress } from "./progress";
 import { encodeGreyPng } from "./frames-png";
+import { encodeRgbaPng } from "../io/png";
+import type { PreprocessOptions } from "../prep/preprocess";
 import { listFrameFiles, openFrameFiles } from "../io/node-source";
 import { fieldsFromList, fieldsFromNames, fieldsFromSweep, fieldsFromTable, type FieldValues } from "../io/fields";
 import { runAnalysis } from "../node/run";
@@ -95,9 +97,25 @@ Options:
   --resume              continue an interrupted run in DIR from its last checkpoint
   --strict              stop at the first frame that fails (default: report it and go on)
   --spectrum S          spectrum of the phase map (binary), of the samples (grey), or off [binary]
+  --skeleton S          skeletons, ends, junctions and kinds: on or off [on]
+  --track               link domains between consecutive frames: nucleated, annihilated, split
+                        and merged counts per frame, DIR/tracks.csv with lifetimes and the
+                        field at which each domain ended
+  --max-displacement P  with --track: link a domain without overlap to the nearest one of its
+                        phase within P pixels [0: overlap only]
+  --overlays N          write DIR/overlays/frame-NNNNN.png (kinds, skeleton, ends, junctions)
+                        for every N-th frame
   --quiet               no progress and no summary
   --json                print the run summary as JSON on stdout
   -h, --help            this help
+
+Preprocessing (in this order; recorded in run.json):
+  --crop x,y,w,h        keep this rectangle
+  --background FILE     divide by (or subtract) this reference frame, e.g. one at saturation
+  --background-mode M   divide or subtract [divide]
+  --flatten F           highpass:SIGMA (subtract a Gaussian blur; SIGMA several periods),
+                        plane, poly:ORDER (least-squares surface) or lines (row medians)
+  --smooth SIGMA        Gaussian smoothing, SIGMA in pixels
 
 Field per frame (one of):
   --field-table F --field-column NAME   a column of a CSV/TSV file (header row)
@@ -223,7 +241,7 @@ async function runDemo(argv: string[]): Promise<number> {
   const picks: Array<{ field: number; m: number; up: number; down: number; eu: number; ed: number }> = [];
   try {
     fieldsCsv.write(`frame,file,${fieldCol}\n`);
-    tables.domains!.write(csvLine(["frame", fieldCol, ...domainHeader(sweep.unit)]));
+    tables.domains!.write(csvLine(["frame", fieldCol, ...domainHeader(sweep.unit, options.skeleton !== "off")]));
     for (let k = 0; k < sweep.fields.length; k++) {
       const frame = sweep.frame(k);
       const name = `frame-${String(k).padStart(4, "0")}.png`;
@@ -233,6 +251,11 @@ async function runDemo(argv: string[]): Promise<number> {
       const r = writeRow(tables, [["frame", k], [fieldCol, sweep.fields[k]!]], analyzer, frame, options, `demo frame ${k}`);
       analysisMs += performance.now() - t0;
       picks.push({ field: sweep.fields[k]!, m: r.magnetization, up: r.up.domains, down: r.down.domains, eu: r.up.euler, ed: r.down.euler });
+      const every = Math.max(1, Math.round((sweep.fields.length - 1) / 8));
+      if (r.skeleton && (k % every === 0 || k === sweep.fields.length - 1)) {
+        const img = analyzer.overlay({ scale: 2 });
+        writeFileAtomic(join(out, "overlays", `frame-${String(k).padStart(4, "0")}.png`), encodeRgbaPng(img.width, img.height, img.rgba));
+      }
       progress.tick(k + 1);
     }
     progress.done();
@@ -337,7 +360,10 @@ async function runAnalyze(argv: string[]): Promise<number> {
     resume: { type: "boolean" }, strict: { type: "boolean" }, json: { type: "boolean" },
     "field-table": { type: "string" }, "field-column": { type: "string" }, fields: { type: "string" },
     sweep: { type: "string" }, "field-from-names": { type: "string" }, "field-unit": { type: "string" },
-    spectrum: { type: "string" },
+    spectrum: { type: "string" }, skeleton: { type: "string" }, track: { type: "boolean" },
+    "max-displacement": { type: "string" }, overlays: { type: "string" }, crop: { type: "string" },
+    background: { type: "string" }, "background-mode": { type: "string" }, flatten: { type: "string" },
+    smooth: { type: "string" },
   });
   if (values.help) { process.stdout.write(HELP.analyze + "\n"); return EXIT.ok; }
   if (positionals.length === 0) throw new UsageError("analyze: expected at least one frame file, folder or pattern (see domtopo analyze --help)");
@@ -349,7 +375,21 @@ async function runAnalyze(argv: string[]): Promise<number> {
     }
     options.spectrum = spectrum === "off" ? "off" : { signal: spectrum };
   }
+  const skeleton = values.skeleton as string | undefined;
+  if (skeleton !== undefined) {
+    if (skeleton !== "off" && skeleton !== "on") throw new UsageError(`--skeleton: expected on or off, got ${JSON.stringify(skeleton)}`);
+    if (skeleton === "off") options.skeleton = "off";
+  }
   resolveFrameOptions(options); // option errors before any file is touched
+  const preprocess = preprocessOptions(values);
+  const backgroundFile = values.background as string | undefined;
+  const overlaysEvery = number("overlays", values.overlays as string | undefined);
+  if (overlaysEvery !== undefined && (!Number.isInteger(overlaysEvery) || overlaysEvery < 1)) {
+    throw new UsageError(`--overlays: expected a whole number >= 1 (every N-th frame), got ${overlaysEvery}`);
+  }
+  if (overlaysEvery !== undefined && options.skeleton === "off") throw new UsageError("--overlays needs the skeleton on");
+  const maxDisplacement = number("max-displacement", values["max-displacement"] as string | undefined);
+  if (maxDisplacement !== undefined && !values.track) throw new UsageError("--max-displacement goes with --track");
   const quiet = Boolean(values.quiet);
   const files = listFrameFiles(positionals);
   const fields = fieldValues(values, files);
@@ -359,14 +399,18 @@ async function runAnalyze(argv: string[]): Promise<number> {
   }
   const outDir = values.out as string | undefined;
   if (!outDir) {
-    for (const flag of ["domains", "resume", "workers"]) {
+    for (const flag of ["domains", "resume", "workers", "track", "overlays"]) {
       if (values[flag] !== undefined) throw new UsageError(`--${flag} needs --out DIR`);
     }
-    return analyzeToStdout(files, options, fields, quiet);
+    return analyzeToStdout(files, options, fields, quiet, preprocess, backgroundFile);
   }
   const progress = new Progress(openFrameFiles(files).count, "analyze", process.stderr, !quiet);
   const summary = await runAnalysis({
-    inputs: files, out: outDir, options: { frame: options, domains: Boolean(values.domains) }, fields,
+    inputs: files, out: outDir,
+    options: { frame: options, domains: Boolean(values.domains), ...(preprocess ? { preprocess } : {}) }, fields,
+    ...(backgroundFile ? { backgroundFile } : {}),
+    ...(values.track ? { tracking: { ...(maxDisplacement !== undefined ? { maxDisplacement } : {}) } } : {}),
+    ...(overlaysEvery !== undefined ? { overlay: { every: overlaysEvery, scale: 2 } } : {}),
     workers, resume: Boolean(values.resume), strict: Boolean(values.strict),
     onProgress: (d) => progress.tick(d),
     onFrameError: (_i, _w, message) => { if (!quiet) process.stderr.write(`\ndomtopo: skipped ${message}\n`); },
@@ -381,15 +425,48 @@ async function runAnalyze(argv: string[]): Promise<number> {
   return summary.failed.length > 0 ? EXIT.someFramesFailed : EXIT.ok;
 }
 
-async function analyzeToStdout(files: string[], options: FrameOptions, fields: FieldValues | undefined, quiet: boolean): Promise<number> {
+function preprocessOptions(values: Values): Omit<PreprocessOptions, "boundary"> | undefined {
+  const o: Omit<PreprocessOptions, "boundary"> = {};
+  if (values.crop !== undefined) {
+    const p = (values.crop as string).split(",").map(Number);
+    if (p.length !== 4 || !p.every(Number.isInteger)) {
+      throw new UsageError(`--crop: expected x,y,width,height in pixels, got ${JSON.stringify(values.crop)}`);
+    }
+    o.crop = { x: p[0]!, y: p[1]!, width: p[2]!, height: p[3]! };
+  }
+  const mode = values["background-mode"] as string | undefined;
+  if (mode !== undefined && mode !== "divide" && mode !== "subtract") {
+    throw new UsageError(`--background-mode: expected divide or subtract, got ${JSON.stringify(mode)}`);
+  }
+  if (mode !== undefined && values.background === undefined) throw new UsageError("--background-mode needs --background FILE");
+  if (values.background !== undefined) o.background = { mode: (mode as "divide" | "subtract" | undefined) ?? "divide" };
+  const f = values.flatten as string | undefined;
+  if (f !== undefined) {
+    const m = /^(highpass):([0-9.]+)$|^(plane)$|^(poly):([123])$|^(lines)$/.exec(f);
+    if (!m) throw new UsageError(`--flatten: expected highpass:SIGMA, plane, poly:ORDER (1-3) or lines, got ${JSON.stringify(f)}`);
+    if (m[1]) o.flatten = { mode: "gaussian-highpass", sigma: number("flatten", m[2])! };
+    else if (m[3]) o.flatten = { mode: "plane" };
+    else if (m[4]) o.flatten = { mode: "poly", order: Number(m[5]) as 1 | 2 | 3 };
+    else o.flatten = { mode: "lines" };
+  }
+  const smooth = number("smooth", values.smooth as string | undefined);
+  if (smooth !== undefined) o.smooth = { sigma: smooth };
+  return Object.keys(o).length > 0 ? o : undefined;
+}
+
+async function analyzeToStdout(
+  files: string[], options: FrameOptions, fields: FieldValues | undefined, quiet: boolean,
+  preprocess: Omit<PreprocessOptions, "boundary"> | undefined, backgroundFile: string | undefined,
+): Promise<number> {
   const source = openFrameFiles(files);
+  const reference = backgroundFile ? await openFrameFiles(backgroundFile).read(0) : undefined;
   const cache = new AnalyzerCache();
   const progress = new Progress(source.count, "analyze", process.stderr, !quiet);
   let header = false;
   try {
     for (let k = 0; k < source.count; k++) {
       const where = source.describe(k);
-      const r = runFrameJob(cache, await source.read(k), k, where, { frame: options });
+      const r = runFrameJob(cache, await source.read(k), k, where, { frame: options, ...(preprocess ? { preprocess } : {}) }, reference);
       const lead: Array<[string, Cell]> = [["frame", k], ["source", where]];
       if (fields) lead.push([`field${fields.unit ? "_" + fields.unit : ""}`, fields.values[k]!]);
       const row = [...lead, ...r.row];

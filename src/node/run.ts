@@ -18,6 +18,7 @@ import { csvLine, domainHeader, type Cell } from "../topology/rows";
 import { writeFileAtomic } from "./atomic";
 import { VERSION } from "../version";
 import type { FieldValues } from "../io/fields";
+import { createTracker, eventRow, trackHeader, trackRows, type DomainTracker, type TrackingOptions } from "../sequence/tracking";
 
 export interface RunConfig {
   /** Frame files, folders or patterns (see listFrameFiles). */
@@ -41,6 +42,12 @@ export interface RunConfig {
   onResult?: (result: FrameJobResult) => Array<[string, Cell]> | void;
   /** Stop after this many frames (for tests of interrupted runs). */
   stopAfter?: number;
+  /** Track domains between consecutive frames (events per frame, DIR/tracks.csv). */
+  tracking?: TrackingOptions;
+  /** File whose first frame is the background reference for `options.preprocess.background`. */
+  backgroundFile?: string;
+  /** Write DIR/overlays/frame-NNNNN.png for every `every`-th frame. */
+  overlay?: { every: number; scale: number };
 }
 
 export interface RunSummary {
@@ -126,11 +133,18 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const out = resolve(config.out);
   mkdirSync(out, { recursive: true });
   const inputs = files.map((path) => ({ path: resolve(path), bytes: statSync(path).size, sha256: fileSha256(path) }));
+  const jobOptions: FrameJobOptions = {
+    ...config.options,
+    ...(config.tracking ? { tracking: true } : {}),
+    ...(config.overlay ? { overlay: config.overlay } : {}),
+  };
   const signature = createHash("sha256").update(JSON.stringify({
-    version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: config.options,
-    fields: config.fields ? Array.from(config.fields.values) : null,
+    version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: jobOptions,
+    tracking: config.tracking ?? null, fields: config.fields ? Array.from(config.fields.values) : null,
+    background: config.backgroundFile ? fileSha256(config.backgroundFile) : null,
   })).digest("hex");
   const progressPath = join(out, "run.progress.json");
+  const trackerPath = join(out, "run.tracker.bin");
   let checkpoint: Checkpoint | undefined;
   if (config.resume && existsSync(progressPath)) {
     checkpoint = JSON.parse(readFileSync(progressPath, "utf8")) as Checkpoint;
@@ -153,12 +167,23 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const fieldName = config.fields ? `field${fieldUnit ? "_" + fieldUnit.replace(/[^A-Za-z0-9µ]+/g, "") : ""}` : undefined;
   if (!checkpoint && files_["domains.csv"]) {
     const lead = ["frame", "source", ...(fieldName ? [fieldName] : [])];
-    files_["domains.csv"].write(csvLine([...lead, ...domainHeader(config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px"))]));
+    files_["domains.csv"].write(csvLine([...lead, ...domainHeader(config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px"), config.options.frame.skeleton !== "off")]));
   }
 
+  let tracker: DomainTracker | undefined;
+  const trackerFor = (w: number, h: number) => {
+    if (!tracker) {
+      tracker = createTracker(w, h, {
+        boundary: config.options.frame.boundary, pixelSize: config.options.frame.pixelSize, ...config.tracking,
+      });
+      if (checkpoint && existsSync(trackerPath)) tracker.restore(readFileSync(trackerPath));
+    }
+    return tracker;
+  };
   const saveCheckpoint = () => {
     const bytes: Record<string, number> = {};
     for (const name of wanted) { files_[name]!.sync(); bytes[name] = files_[name]!.size(); }
+    if (tracker) writeFileAtomic(trackerPath, tracker.snapshot());
     const cp: Checkpoint = { signature, framesDone: done, bytes, failed, headerDone };
     writeFileAtomic(progressPath, JSON.stringify(cp) + "\n");
   };
@@ -166,7 +191,9 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const workers = Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, total - startAt)));
   const end = config.stopAfter !== undefined ? Math.min(total, startAt + config.stopAfter) : total;
   function* jobs(): Generator<FileFrameJob> {
-    for (let index = startAt; index < end; index++) yield { files, index, options: config.options };
+    for (let index = startAt; index < end; index++) {
+      yield { files, index, options: jobOptions, ...(config.backgroundFile ? { backgroundFile: config.backgroundFile } : {}) };
+    }
   }
   const spawn = workers === 1 ? () => inThreadWorker(handleFileJob) : workerThread;
   const every = config.checkpointEvery ?? 25;
@@ -186,6 +213,16 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         const lead: Array<[string, Cell]> = [["frame", index], ["source", r.where]];
         if (fieldName) lead.push([fieldName, config.fields!.values[index]!]);
         const extra = config.onResult?.(r) ?? [];
+        if (config.tracking && r.tracking) {
+          const t = r.tracking;
+          const events = trackerFor(r.width, r.height).push(t.labels, t, {
+            frame: index, ...(config.fields ? { field: config.fields.values[index]! } : {}),
+          });
+          extra.push(...eventRow(events));
+        }
+        if (r.overlayPng) {
+          writeFileAtomic(join(out, "overlays", `frame-${String(index).padStart(5, "0")}.png`), r.overlayPng);
+        }
         const row = [...lead, ...r.row, ...extra];
         if (!headerDone) { files_["frames.csv"]!.write(csvLine(row.map(([k]) => k))); headerDone = true; }
         files_["frames.csv"]!.write(csvLine(row.map(([, v]) => v)));
@@ -215,11 +252,19 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   };
   if (completed) {
     for (const name of wanted) renameSync(join(out, `${name}.partial`), join(out, name));
+    if (config.tracking) {
+      const unit = config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px");
+      const rows = tracker ? trackRows(tracker.trackSummary()) : [];
+      writeFileAtomic(join(out, "tracks.csv"), csvLine(trackHeader(unit)) + rows.map((r) => csvLine(r)).join(""));
+      if (existsSync(trackerPath)) unlinkSync(trackerPath);
+    }
     writeFileAtomic(join(out, "run.json"), JSON.stringify({
       tool: "domtopo", version: VERSION, command: "analyze", finished: new Date().toISOString(),
-      inputs, frames: total, options: config.options,
+      inputs, frames: total, options: jobOptions,
+      background: config.backgroundFile ? { path: resolve(config.backgroundFile), sha256: fileSha256(config.backgroundFile) } : null,
       field: config.fields ? { unit: config.fields.unit, source: config.fields.source } : null,
-      outputs: wanted, failures: failed,
+      outputs: [...wanted, ...(config.tracking ? ["tracks.csv"] : []), ...(config.overlay ? ["overlays/"] : [])],
+      tracking: config.tracking ?? null, failures: failed,
       timings: { seconds, framesPerSecond: summary.framesPerSecond, workers, resumedAtFrame: startAt },
     }, null, 2) + "\n");
     unlinkSync(progressPath);

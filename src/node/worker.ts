@@ -3,17 +3,28 @@
 import { parentPort, workerData } from "node:worker_threads";
 import { openFrameFiles } from "../io/node-source";
 import type { FrameSource } from "../io/source";
+import type { Frame } from "../types";
 import { AnalyzerCache, runFrameJob, transferablesOf, type FrameJobOptions } from "../sequence/job";
 
 export interface FileFrameJob {
   files: string[];
   index: number;
   options: FrameJobOptions;
+  /** File of the background reference frame (its first frame), when the options divide or subtract one. */
+  backgroundFile?: string;
 }
 
 const cache = new AnalyzerCache();
 let source: FrameSource | undefined;
 let sourceKey = "";
+let reference: { file: string; frame: Frame } | undefined;
+
+async function referenceFrame(file: string): Promise<Frame> {
+  if (!reference || reference.file !== file) {
+    reference = { file, frame: await openFrameFiles(file).read(0) };
+  }
+  return reference.frame;
+}
 
 export async function handleFileJob(job: FileFrameJob) {
   const key = job.files.join("\n");
@@ -23,7 +34,8 @@ export async function handleFileJob(job: FileFrameJob) {
   }
   const where = source.describe(job.index);
   const frame = await source.read(job.index);
-  return runFrameJob(cache, frame, job.index, where, job.options);
+  const ref = job.backgroundFile ? await referenceFrame(job.backgroundFile) : undefined;
+  return runFrameJob(cache, frame, job.index, where, job.options, ref);
 }
 
 // Only in threads started by the pool (workerData marks them), never in a host's own workers.

@@ -4,6 +4,8 @@ import type { Frame } from "../types";
 import { FrameAnalyzer } from "../topology/analyze";
 import type { FrameOptions } from "../topology/options";
 import { frameRow, domainRows, type Cell } from "../topology/rows";
+import { encodeRgbaPng } from "../io/png";
+import { Preprocessor, type PreprocessOptions } from "../prep/preprocess";
 
 export interface FrameJobOptions {
   frame: FrameOptions;
@@ -11,6 +13,13 @@ export interface FrameJobOptions {
   domains?: boolean;
   /** Return the label image and the columns that tracking needs (transferable). @default false */
   tracking?: boolean;
+  /** Return an overlay PNG of every `every`-th frame (kinds, skeleton, ends and junctions). */
+  overlay?: { every: number; scale: number };
+  /**
+   * Crop, background reference, flattening and smoothing before the threshold (the sides come
+   * from `frame.boundary`). A background reference is passed to `runFrameJob` separately.
+   */
+  preprocess?: Omit<PreprocessOptions, "boundary">;
 }
 
 export interface TrackingInput {
@@ -30,11 +39,21 @@ export interface FrameJobResult {
   row: Array<[string, Cell]>;
   domainRows?: Cell[][];
   tracking?: TrackingInput;
+  overlayPng?: Uint8Array;
 }
 
-/** Keeps one analyzer per frame shape for the life of a thread. */
+/** Keeps one analyzer (and preprocessor) per frame shape for the life of a thread. */
 export class AnalyzerCache {
   private analyzer: FrameAnalyzer | undefined;
+  private prep: { key: string; reference: Frame | undefined; p: Preprocessor } | undefined;
+
+  preprocessor(frame: Frame, options: PreprocessOptions, reference: Frame | undefined): Preprocessor {
+    const key = `${frame.width}x${frame.height}:${JSON.stringify(options)}`;
+    if (!this.prep || this.prep.key !== key || this.prep.reference !== reference) {
+      this.prep = { key, reference, p: new Preprocessor(frame.width, frame.height, options, reference) };
+    }
+    return this.prep.p;
+  }
 
   get(width: number, height: number): FrameAnalyzer {
     if (!this.analyzer || this.analyzer.width !== width || this.analyzer.height !== height) {
@@ -51,12 +70,21 @@ export class AnalyzerCache {
 }
 
 export function runFrameJob(
-  cache: AnalyzerCache, frame: Frame, index: number, where: string, options: FrameJobOptions,
+  cache: AnalyzerCache, input: Frame, index: number, where: string, options: FrameJobOptions, reference?: Frame,
 ): FrameJobResult {
+  let frame = input;
+  if (options.preprocess) {
+    const p = cache.preprocessor(input, { ...options.preprocess, boundary: options.frame.boundary ?? "open" }, reference);
+    frame = p.process(input, where).frame;
+  }
   const analyzer = cache.get(frame.width, frame.height);
   const r = analyzer.analyze(frame, { ...options.frame, keepLabels: Boolean(options.tracking) }, where);
   const out: FrameJobResult = { index, where, width: frame.width, height: frame.height, row: frameRow(r) };
   if (options.domains) out.domainRows = domainRows(r);
+  if (options.overlay && index % options.overlay.every === 0 && r.skeleton) {
+    const img = analyzer.overlay({ scale: options.overlay.scale });
+    out.overlayPng = encodeRgbaPng(img.width, img.height, img.rgba);
+  }
   if (options.tracking) {
     const d = r.domains;
     out.tracking = {
@@ -68,7 +96,9 @@ export function runFrameJob(
 
 /** The buffers of a result that can be moved rather than copied between threads. */
 export function transferablesOf(result: FrameJobResult): ArrayBuffer[] {
+  const out: ArrayBuffer[] = [];
   const t = result.tracking;
-  if (!t) return [];
-  return [t.labels.buffer, t.phase.buffer, t.area.buffer, t.centroidX.buffer, t.centroidY.buffer] as ArrayBuffer[];
+  if (t) out.push(...[t.labels.buffer, t.phase.buffer, t.area.buffer, t.centroidX.buffer, t.centroidY.buffer] as ArrayBuffer[]);
+  if (result.overlayPng) out.push(result.overlayPng.buffer as ArrayBuffer);
+  return out;
 }

@@ -169,6 +169,9 @@ export function resolveTrackingOptions(options: TrackingOptions = {}): ResolvedT
 }
 
 /** Growable per-track columns (struct of arrays). */
+const TRACK_KEYS = ["phase", "bornBy", "endedBy", "lifetime", "birthFrame", "birthField", "endFrame",
+  "endField", "goneFrame", "goneField", "maxArea"] as const;
+
 class TrackColumns {
   count = 0;
   phase = new Uint8Array(256);
@@ -295,6 +298,66 @@ export class DomainTracker {
   /** Tracks opened so far. */
   get trackCount(): number {
     return this.tracks.count;
+  }
+
+  /**
+   * The tracker's state as bytes (previous frame and every track), for checkpoints of long runs;
+   * `restore` on a tracker of the same shape and options continues exactly where this one was.
+   */
+  snapshot(): Uint8Array {
+    const arrays: Array<[string, ArrayBufferView]> = [
+      ["prevLabels", this.prevLabels], ["prevPhase", this.prevPhase], ["prevTrack", this.prevTrack],
+      ["prevArea", this.prevArea], ["prevX", this.prevX], ["prevY", this.prevY],
+    ];
+    const t = this.tracks;
+    for (const key of TRACK_KEYS) arrays.push([`tracks.${key}`, t[key]]);
+    const head = {
+      width: this.width, height: this.height, options: this.options, frames: this.frames,
+      lastFrame: Number.isNaN(this.lastFrame) ? null : this.lastFrame, prevCount: this.prevCount, trackCount: t.count,
+      arrays: arrays.map(([name, a]) => [name, a.constructor.name, a.byteLength]),
+    };
+    const headBytes = new TextEncoder().encode(JSON.stringify(head));
+    let total = 4 + headBytes.length;
+    total = (total + 7) & ~7;
+    const offsets: number[] = [];
+    for (const [, a] of arrays) { offsets.push(total); total += (a.byteLength + 7) & ~7; }
+    const out = new Uint8Array(total);
+    new DataView(out.buffer).setUint32(0, headBytes.length, true);
+    out.set(headBytes, 4);
+    arrays.forEach(([, a], i) => out.set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength), offsets[i]!));
+    return out;
+  }
+
+  /** Restores a `snapshot` of a tracker of the same shape and options. */
+  restore(bytes: Uint8Array): void {
+    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    const n = view.getUint32(0, true);
+    const head = JSON.parse(new TextDecoder().decode(bytes.subarray(4, 4 + n))) as {
+      width: number; height: number; options: ResolvedTrackingOptions; frames: number; lastFrame: number | null;
+      prevCount: number; trackCount: number; arrays: Array<[string, string, number]>;
+    };
+    if (head.width !== this.width || head.height !== this.height || JSON.stringify(head.options) !== JSON.stringify(this.options)) {
+      throw new Error(`tracker snapshot: made for ${head.width} x ${head.height} with other options; cannot restore`);
+    }
+    const kinds: Record<string, new (b: ArrayBuffer) => ArrayBufferView> = {
+      Int32Array, Uint8Array, Float64Array,
+    } as never;
+    let off = (4 + n + 7) & ~7;
+    const take = (kind: string, len: number) => {
+      const copy = bytes.slice(off, off + len);
+      off += (len + 7) & ~7;
+      return new kinds[kind]!(copy.buffer);
+    };
+    const t = this.tracks;
+    for (const [name, kind, len] of head.arrays) {
+      const a = take(kind, len);
+      if (name.startsWith("tracks.")) (t as unknown as Record<string, ArrayBufferView>)[name.slice(7)] = a;
+      else (this as unknown as Record<string, ArrayBufferView>)[name] = a;
+    }
+    t.count = head.trackCount;
+    this.frames = head.frames;
+    this.lastFrame = head.lastFrame ?? NaN;
+    this.prevCount = head.prevCount;
   }
 
   /** Forgets every frame and track (to start another movie of the same shape). */

@@ -9,6 +9,20 @@ import { createSpectrumWorkspace, SPECTRUM_MIN_SIDE, type SpectrumWorkspace } fr
 import { analyzeSpectrum } from "../spectrum/analyze";
 import type { SpectrumResult } from "../spectrum/result";
 import type { SpectrumOptions } from "../spectrum/options";
+import { analyzeSkeletons, type SkeletonAnalysis, type ResolvedSkeletonOptions } from "./skeleton-analysis";
+import type { SkeletonColumns, PhaseSkeletonSummary } from "./classify";
+import { SkeletonWorkspace } from "../wasm/skeleton";
+import { overlayPixels, type OverlayImage, type OverlayOptions } from "../render/overlay";
+
+/** Skeleton results of a frame: per-domain columns (row i = domain id i + 1) and per-phase summaries. */
+export interface FrameSkeletons {
+  options: ResolvedSkeletonOptions;
+  columns: SkeletonColumns;
+  up: PhaseSkeletonSummary;
+  down: PhaseSkeletonSummary;
+  /** 1 on the pruned skeleton pixels (only with `keepLabels`). */
+  pruned?: Uint8Array;
+}
 
 export interface PhaseSummary {
   /** Number of domains of this phase. */
@@ -47,6 +61,8 @@ export interface FrameResult {
   domains: DomainTable;
   /** Period, correlation length and order from the power spectrum (absent when `spectrum: 'off'`). */
   spectrum?: SpectrumResult;
+  /** Skeletons, defects and kinds (absent when `skeleton: 'off'`). */
+  skeleton?: FrameSkeletons;
   /** The label image (ids 1..K; row i of `domains` is id i + 1), when `keepLabels` is set. */
   labels?: Int32Array;
 }
@@ -99,6 +115,9 @@ export class FrameAnalyzer {
   private ws: LabelingWorkspace;
   private spectrumWs: SpectrumWorkspace | undefined;
   private phaseCopy: Uint8Array | undefined;
+  private skeletonWs: SkeletonWorkspace | undefined;
+  private lastSkeleton: SkeletonAnalysis | undefined;
+  private lastMaps: { phase: Uint8Array; labels: Int32Array } | undefined;
 
   constructor(width: number, height: number) {
     checkSize("analyzer width", width);
@@ -148,8 +167,39 @@ export class FrameAnalyzer {
     const domains = buildDomainTable(ws, o.pixelSize);
     const result = summarize(this.width, this.height, o, level, stats, domains, absorbed,
       o.keepLabels ? ws.labels().slice() : undefined);
+    this.lastSkeleton = undefined;
+    this.lastMaps = undefined;
+    if (o.skeleton !== "off") result.skeleton = this.skeletonsOf(o, rule);
     if (o.spectrum !== "off") result.spectrum = this.spectrumOf(frame, o);
     return result;
+  }
+
+  private skeletonsOf(o: ResolvedFrameOptions, rule: RuleCode): FrameSkeletons {
+    // Copies: the skeleton kernels share Wasm memory with the labeling workspace.
+    const phase = this.ws.phase().slice(), labels = this.ws.labels().slice();
+    const quads = rule === 2 ? this.ws.quads()!.slice() : undefined;
+    this.skeletonWs ??= new SkeletonWorkspace(this.width, this.height);
+    const a = analyzeSkeletons(
+      { width: this.width, height: this.height, phase, labels, count: this.ws.domainCount },
+      { ...(o.skeleton as object), boundary: o.boundary, connectivity: o.connectivity, pixelSize: o.pixelSize, ...(quads ? { quads } : {}) },
+      this.skeletonWs,
+    );
+    this.lastSkeleton = a;
+    this.lastMaps = { phase, labels };
+    const out: FrameSkeletons = { options: a.options, columns: a.columns, up: a.up, down: a.down };
+    if (o.keepLabels) out.pruned = a.pruned;
+    return out;
+  }
+
+  /**
+   * The last frame as an overlay: domains coloured by kind, pruned skeleton drawn, ends and
+   * junctions marked (needs the skeleton to have been on).
+   */
+  overlay(options: OverlayOptions = {}): OverlayImage {
+    if (!this.lastSkeleton || !this.lastMaps) {
+      throw new Error("overlay: analyze a frame with the skeleton on first");
+    }
+    return overlayPixels(this.lastSkeleton, this.width, this.height, this.lastMaps.phase, this.lastMaps.labels, options);
   }
 
   private spectrumOf(frame: Frame, o: ResolvedFrameOptions): SpectrumResult {
@@ -190,6 +240,8 @@ export class FrameAnalyzer {
     this.ws.dispose();
     this.spectrumWs?.dispose();
     this.spectrumWs = undefined;
+    this.skeletonWs?.dispose();
+    this.skeletonWs = undefined;
   }
 }
 

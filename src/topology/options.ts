@@ -2,6 +2,10 @@
 import { checkChoice, checkNumber, checkPositive } from "../frame";
 import type { ThresholdOption } from "../prep/threshold";
 import type { SpectrumOptions } from "../spectrum/options";
+import type { SkeletonOptions } from "./skeleton-analysis";
+
+/** Skeleton options set per analysis (sides, connectivity and pixel size come from the frame options). */
+export type FrameSkeletonOptions = Pick<SkeletonOptions, "spurFactor" | "junctionMergeFactor" | "bubbleMaxAspect" | "thinning">;
 
 export type Boundary = "open" | "periodic" | "periodic-x" | "periodic-y";
 /**
@@ -41,6 +45,11 @@ export interface FrameOptions {
    * unit and boundary come from the frame options. @default {}
    */
   spectrum?: "off" | Omit<SpectrumOptions, "pixelSize" | "lengthUnit" | "boundary">;
+  /**
+   * Skeletons, ends and junctions, and the kind of every domain (bubble, stripe, labyrinth),
+   * or `'off'`. @default {}
+   */
+  skeleton?: "off" | FrameSkeletonOptions;
 }
 
 export interface ResolvedFrameOptions {
@@ -53,11 +62,12 @@ export interface ResolvedFrameOptions {
   unit: string;
   keepLabels: boolean;
   spectrum: "off" | Omit<SpectrumOptions, "pixelSize" | "lengthUnit" | "boundary">;
+  skeleton: "off" | FrameSkeletonOptions;
 }
 
 const KNOWN = new Set([
   "threshold", "invert", "connectivity", "boundary", "minDomainArea", "pixelSize", "unit",
-  "keepLabels", "spectrum",
+  "keepLabels", "spectrum", "skeleton",
 ]);
 
 export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOptions {
@@ -104,5 +114,16 @@ export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOp
       throw new Error(`options.spectrum.${key}: set it on the frame options (options.${key === "lengthUnit" ? "unit" : key})`);
     }
   }
-  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels, spectrum };
+  const skeleton = options.skeleton ?? {};
+  if (skeleton !== "off") {
+    if (skeleton === null || typeof skeleton !== "object") {
+      throw new Error(`options.skeleton: expected "off" or an object of skeleton options, got ${String(skeleton)}`);
+    }
+    for (const key of Object.keys(skeleton)) {
+      if (!["spurFactor", "junctionMergeFactor", "bubbleMaxAspect", "thinning"].includes(key)) {
+        throw new Error(`options.skeleton.${key}: unknown or set on the frame options (known: spurFactor, junctionMergeFactor, bubbleMaxAspect, thinning)`);
+      }
+    }
+  }
+  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels, spectrum, skeleton };
 }

@@ -1,5 +1,6 @@
 // Flat rows for tables (CSV, NDJSON): one per frame and one per domain, with units in names.
 import type { FrameResult } from "./analyze";
+import { KIND_NAMES } from "./classify";
 
 export type Cell = number | string;
 
@@ -28,6 +29,29 @@ export function frameRow(r: FrameResult): Array<[string, Cell]> {
       [`${name}_absorbed`, p.absorbed],
     );
   }
+  const sk = r.skeleton;
+  if (sk) {
+    const v = (x: number): Cell => (Number.isFinite(x) ? x : "");
+    for (const [name, p] of [["up", sk.up], ["down", sk.down]] as const) {
+      row.push(
+        [`${name}_bubbles`, p.bubble.count],
+        [`${name}_stripes`, p.stripe.count],
+        [`${name}_closed_stripes`, p.stripe.closed],
+        [`${name}_labyrinths`, p.labyrinth.count],
+        [`${name}_bubble_area_fraction`, p.bubble.areaFraction],
+        [`${name}_stripe_area_fraction`, p.stripe.areaFraction],
+        [`${name}_labyrinth_area_fraction`, p.labyrinth.areaFraction],
+        [`${name}_ends_per_${u}2`, p.endsDensity],
+        [`${name}_junctions_per_${u}2`, p.junctionDensity],
+        [`${name}_junctions3_per_${u}2`, p.junctions3Density],
+        [`${name}_junctions4plus_per_${u}2`, p.junctions4plusDensity],
+        [`${name}_bubble_diameter_mean_${u}`, v(p.bubbleDiameterMean)],
+        [`${name}_bubble_diameter_std_${u}`, v(p.bubbleDiameterStd)],
+        [`${name}_stripe_width_mean_${u}`, v(p.stripeWidthMean)],
+        [`${name}_skeleton_length_density_per_${u}`, p.skeletonLengthDensity],
+      );
+    }
+  }
   const sp = r.spectrum;
   if (sp) {
     const v = (x: number | undefined): Cell => (x === undefined || !Number.isFinite(x) ? "" : x);
@@ -47,15 +71,20 @@ export function frameRow(r: FrameResult): Array<[string, Cell]> {
   return row;
 }
 
-/** Header of the per-domain table for lengths in `unit`. */
-export function domainHeader(unit: string): string[] {
+/** Header of the per-domain table for lengths in `unit` (with the skeleton columns when on). */
+export function domainHeader(unit: string, skeleton = true): string[] {
   const u = unitSuffix(unit);
-  return [
+  const head = [
     "id", "phase", `area_${u}2`, `wall_length_${u}`, "euler", "holes",
     `centroid_x_${u}`, `centroid_y_${u}`, `bbox_x_${u}`, `bbox_y_${u}`, `bbox_width_${u}`,
     `bbox_height_${u}`, `equivalent_diameter_${u}`, "elongation", "orientation_deg",
     "wraps_x", "wraps_y", "edge",
   ];
+  if (skeleton) {
+    head.push("kind", `skeleton_length_${u}`, "ends", "junctions3", "junctions4plus", "branches",
+      "loops", `mean_width_${u}`, "closed");
+  }
+  return head;
 }
 
 /** The per-domain rows of a result (same order as `domainHeader`). */
@@ -71,6 +100,12 @@ export function domainRows(r: FrameResult): Cell[][] {
       Number.isNaN(t.orientation[i]) ? "" : t.orientation[i]!,
       t.wrapsX[i]!, t.wrapsY[i]!, t.edge[i]!,
     ]);
+    const c = r.skeleton?.columns;
+    if (c) {
+      rows[i]!.push(KIND_NAMES[c.kind[i]!] ?? "", c.skeletonLength[i]!, c.ends[i]!, c.junctions3[i]!,
+        c.junctions4plus[i]!, c.branches[i]!, c.loops[i]!,
+        Number.isFinite(c.meanWidth[i]) ? c.meanWidth[i]! : "", c.closed[i]!);
+    }
   }
   return rows;
 }

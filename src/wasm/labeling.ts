@@ -218,6 +218,11 @@ export class LabelingWorkspace {
     return viewI32(this.labelPtr, this.pixels);
   }
 
+  /** View of the saddle decisions of the last `saddleDecisions` call (undefined before). */
+  quads(): Uint8Array | undefined {
+    return this.quadPtr ? viewU8(this.quadPtr, this.pixels) : undefined;
+  }
+
   /** View of the phase map (1 up, 0 down). */
   phase(): Uint8Array {
     return viewU8(this.phasePtr, this.pixels);
