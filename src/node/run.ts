@@ -91,6 +91,7 @@ export function fileSha256(path: string): string {
 
 class PartialFile {
   private fd: number;
+  private position = 0;
   constructor(readonly path: string, keepBytes: number | undefined) {
     if (keepBytes === undefined) {
       this.fd = openSync(path, "w");
@@ -99,10 +100,16 @@ class PartialFile {
       const size = fstatSync(this.fd).size;
       if (size < keepBytes) throw new Error(`${path}: shorter (${size} bytes) than its checkpoint (${keepBytes}); cannot resume`);
       ftruncateSync(this.fd, keepBytes); // drop rows written after the last checkpoint
+      this.position = keepBytes;
     }
   }
-  write(text: string): void { writeSync(this.fd, text, null); }
-  size(): number { return fstatSync(this.fd).size; }
+  write(text: string): void {
+    const bytes = Buffer.from(text, "utf8");
+    let done = 0;
+    while (done < bytes.length) done += writeSync(this.fd, bytes, done, bytes.length - done, this.position + done);
+    this.position += bytes.length;
+  }
+  size(): number { return this.position; }
   sync(): void { fsyncSync(this.fd); }
   close(): void { closeSync(this.fd); }
 }

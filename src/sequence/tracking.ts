@@ -344,7 +344,8 @@ export class DomainTracker {
     } as never;
     let off = (4 + n + 7) & ~7;
     const take = (kind: string, len: number) => {
-      const copy = bytes.slice(off, off + len);
+      // A real copy (Node Buffers' slice shares memory), aligned for the typed array.
+      const copy = Uint8Array.prototype.slice.call(bytes, off, off + len);
       off += (len + 7) & ~7;
       return new kinds[kind]!(copy.buffer);
     };
