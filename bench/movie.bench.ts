@@ -1,0 +1,71 @@
+// End to end on a movie: read an .npy stack of 512 x 512 demo frames, analyze every frame with
+// everything on (labeling, Euler, walls, skeletons and kinds, spectrum, tracking), write the
+// tables; with 1 and 2 worker threads. Prints frames/s, the scaling ratio and peak memory at two
+// movie lengths (peak memory must not grow with the number of frames).
+// Usage: npx tsx bench/movie.bench.ts [--frames 400] [--size 512]   (needs `npm run build`)
+import { mkdtempSync, rmSync, openSync, writeSync, closeSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { runAnalysis, demoSweep } from "../dist/node.js";
+
+const arg = (name: string, d: number) => {
+  const i = process.argv.indexOf(`--${name}`);
+  return i >= 0 ? Number(process.argv[i + 1]) : d;
+};
+const FRAMES = arg("frames", 400), SIZE = arg("size", 512);
+const dir = mkdtempSync(join(tmpdir(), "domtopo-movie-bench-"));
+
+// An .npy stack written by hand (format 1.0, |u1, C order), frames from a slow field sweep.
+function writeStack(path: string, frames: number) {
+  const sweep = demoSweep({ size: SIZE, frames: 61, seed: 9 });
+  let header = `{'descr': '|u1', 'fortran_order': False, 'shape': (${frames}, ${SIZE}, ${SIZE}), }`;
+  const pad = 64 - ((10 + header.length + 1) % 64);
+  header += " ".repeat(pad % 64) + "\n";
+  const fd = openSync(path, "w");
+  const pre = new Uint8Array(10);
+  pre.set([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0]);
+  new DataView(pre.buffer).setUint16(8, header.length, true);
+  writeSync(fd, pre);
+  writeSync(fd, header);
+  for (let k = 0; k < frames; k++) {
+    // Back and forth along the sweep, so every frame differs from the last.
+    const t = k % 120, j = t < 60 ? t : 120 - t;
+    writeSync(fd, sweep.frame(j).data);
+  }
+  closeSync(fd);
+}
+
+async function measure(path: string, workers: number, out: string) {
+  let peakRss = 0;
+  const timer = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage().rss); }, 20);
+  const t0 = performance.now();
+  const s = await runAnalysis({
+    inputs: [path], out, workers,
+    options: { frame: { threshold: 127.5, minDomainArea: 4 }, domains: true }, tracking: {},
+  });
+  const seconds = (performance.now() - t0) / 1000;
+  clearInterval(timer);
+  peakRss = Math.max(peakRss, process.memoryUsage().rss);
+  return { fps: s.frames / seconds, seconds, peakRssMB: peakRss / 2 ** 20 };
+}
+
+const half = join(dir, "half.npy"), full = join(dir, "full.npy");
+writeStack(half, Math.floor(FRAMES / 2));
+writeStack(full, FRAMES);
+console.log(`movie: ${FRAMES} frames of ${SIZE} x ${SIZE}, everything on (skeleton, spectrum, tracking, domain table)`);
+const rows: string[] = [];
+const results: Record<string, { fps: number; seconds: number; peakRssMB: number }> = {};
+for (const workers of [1, 2]) {
+  for (const [name, path] of [["half", half], ["full", full]] as const) {
+    const r = await measure(path, workers, join(dir, `out-${workers}-${name}`));
+    results[`${workers}-${name}`] = r;
+    rows.push(`workers ${workers}  ${name === "half" ? Math.floor(FRAMES / 2) : FRAMES} frames  ${r.fps.toFixed(1).padStart(6)} frames/s  ` +
+      `${r.seconds.toFixed(1).padStart(6)} s  peak RSS (main thread process) ${r.peakRssMB.toFixed(0)} MB`);
+    console.log(rows[rows.length - 1]);
+  }
+}
+const scaling = results["2-full"]!.fps / results["1-full"]!.fps;
+console.log(`scaling 2 workers / 1 worker: ${scaling.toFixed(2)}x (target >= 1.7)`);
+console.log(`frames/s per core (1 worker): ${results["1-full"]!.fps.toFixed(1)} (target >= 80)`);
+console.log(`peak RSS, ${FRAMES} vs ${Math.floor(FRAMES / 2)} frames, 1 worker: ${results["1-full"]!.peakRssMB.toFixed(0)} vs ${results["1-half"]!.peakRssMB.toFixed(0)} MB`);
+rmSync(dir, { recursive: true, force: true });
