@@ -68,11 +68,12 @@ describe("domtopo analyze on movies", () => {
     expect(record.inputs).toHaveLength(FRAMES);
   });
 
-  it("writes overlays and applies preprocessing recorded in the run record", () => {
+  it("writes overlays and spectrum images and applies preprocessing recorded in the run record", () => {
     const out = join(dir, "prep");
     const r = run(["analyze", join(dir, "sweep.npy"), "--threshold", "127.5", "--smooth", "1", "--crop", "0,0,48,40",
-      "--overlays", "3", "--out", out, "--quiet"]);
+      "--overlays", "3", "--spectra", "5", "--out", out, "--quiet"]);
     expect(r.err).toBe("");
+    expect(readdirSync(join(out, "spectra")).sort()).toEqual(["frame-00000.png", "frame-00005.png"]);
     expect(readdirSync(join(out, "overlays")).sort()).toEqual(["frame-00000.png", "frame-00003.png", "frame-00006.png", "frame-00009.png"]);
     const record = JSON.parse(readFileSync(join(out, "run.json"), "utf8"));
     expect(record.options.preprocess).toEqual({ crop: { x: 0, y: 0, width: 48, height: 40 }, smooth: { sigma: 1 } });

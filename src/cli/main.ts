@@ -105,6 +105,8 @@ Options:
                         phase within P pixels [0: overlap only]
   --overlays N          write DIR/overlays/frame-NNNNN.png (kinds, skeleton, ends, junctions)
                         for every N-th frame
+  --spectra N           write DIR/spectra/frame-NNNNN.png (log power spectrum, centred, the ring
+                        at q* marked) for every N-th frame
   --quiet               no progress and no summary
   --json                print the run summary as JSON on stdout
   -h, --help            this help
@@ -361,7 +363,7 @@ async function runAnalyze(argv: string[]): Promise<number> {
     "field-table": { type: "string" }, "field-column": { type: "string" }, fields: { type: "string" },
     sweep: { type: "string" }, "field-from-names": { type: "string" }, "field-unit": { type: "string" },
     spectrum: { type: "string" }, skeleton: { type: "string" }, track: { type: "boolean" },
-    "max-displacement": { type: "string" }, overlays: { type: "string" }, crop: { type: "string" },
+    "max-displacement": { type: "string" }, overlays: { type: "string" }, spectra: { type: "string" }, crop: { type: "string" },
     background: { type: "string" }, "background-mode": { type: "string" }, flatten: { type: "string" },
     smooth: { type: "string" },
   });
@@ -388,6 +390,11 @@ async function runAnalyze(argv: string[]): Promise<number> {
     throw new UsageError(`--overlays: expected a whole number >= 1 (every N-th frame), got ${overlaysEvery}`);
   }
   if (overlaysEvery !== undefined && options.skeleton === "off") throw new UsageError("--overlays needs the skeleton on");
+  const spectraEvery = number("spectra", values.spectra as string | undefined);
+  if (spectraEvery !== undefined && (!Number.isInteger(spectraEvery) || spectraEvery < 1)) {
+    throw new UsageError(`--spectra: expected a whole number >= 1 (every N-th frame), got ${spectraEvery}`);
+  }
+  if (spectraEvery !== undefined && options.spectrum === "off") throw new UsageError("--spectra needs the spectrum on");
   const maxDisplacement = number("max-displacement", values["max-displacement"] as string | undefined);
   if (maxDisplacement !== undefined && !values.track) throw new UsageError("--max-displacement goes with --track");
   const quiet = Boolean(values.quiet);
@@ -399,7 +406,7 @@ async function runAnalyze(argv: string[]): Promise<number> {
   }
   const outDir = values.out as string | undefined;
   if (!outDir) {
-    for (const flag of ["domains", "resume", "workers", "track", "overlays"]) {
+    for (const flag of ["domains", "resume", "workers", "track", "overlays", "spectra"]) {
       if (values[flag] !== undefined) throw new UsageError(`--${flag} needs --out DIR`);
     }
     return analyzeToStdout(files, options, fields, quiet, preprocess, backgroundFile);
@@ -411,6 +418,7 @@ async function runAnalyze(argv: string[]): Promise<number> {
     ...(backgroundFile ? { backgroundFile } : {}),
     ...(values.track ? { tracking: { ...(maxDisplacement !== undefined ? { maxDisplacement } : {}) } } : {}),
     ...(overlaysEvery !== undefined ? { overlay: { every: overlaysEvery, scale: 2 } } : {}),
+    ...(spectraEvery !== undefined ? { spectra: { every: spectraEvery } } : {}),
     workers, resume: Boolean(values.resume), strict: Boolean(values.strict),
     onProgress: (d) => progress.tick(d),
     onFrameError: (_i, _w, message) => { if (!quiet) process.stderr.write(`\ndomtopo: skipped ${message}\n`); },

@@ -48,6 +48,8 @@ export interface RunConfig {
   backgroundFile?: string;
   /** Write DIR/overlays/frame-NNNNN.png for every `every`-th frame. */
   overlay?: { every: number; scale: number };
+  /** Write DIR/spectra/frame-NNNNN.png (log power spectrum, ring marked) for every `every`-th frame. */
+  spectra?: { every: number };
 }
 
 export interface RunSummary {
@@ -144,6 +146,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     ...config.options,
     ...(config.tracking ? { tracking: true } : {}),
     ...(config.overlay ? { overlay: config.overlay } : {}),
+    ...(config.spectra ? { spectra: config.spectra } : {}),
   };
   const signature = createHash("sha256").update(JSON.stringify({
     version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: jobOptions,
@@ -227,6 +230,9 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
           });
           extra.push(...eventRow(events));
         }
+        if (r.spectrumPng) {
+          writeFileAtomic(join(out, "spectra", `frame-${String(index).padStart(5, "0")}.png`), r.spectrumPng);
+        }
         if (r.overlayPng) {
           writeFileAtomic(join(out, "overlays", `frame-${String(index).padStart(5, "0")}.png`), r.overlayPng);
         }
@@ -270,7 +276,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
       inputs, frames: total, options: jobOptions,
       background: config.backgroundFile ? { path: resolve(config.backgroundFile), sha256: fileSha256(config.backgroundFile) } : null,
       field: config.fields ? { unit: config.fields.unit, source: config.fields.source } : null,
-      outputs: [...wanted, ...(config.tracking ? ["tracks.csv"] : []), ...(config.overlay ? ["overlays/"] : [])],
+      outputs: [...wanted, ...(config.tracking ? ["tracks.csv"] : []), ...(config.overlay ? ["overlays/"] : []), ...(config.spectra ? ["spectra/"] : [])],
       tracking: config.tracking ?? null, failures: failed,
       timings: { seconds, framesPerSecond: summary.framesPerSecond, workers, resumedAtFrame: startAt },
     }, null, 2) + "\n");

@@ -15,6 +15,8 @@ export interface FrameJobOptions {
   tracking?: boolean;
   /** Return an overlay PNG of every `every`-th frame (kinds, skeleton, ends and junctions). */
   overlay?: { every: number; scale: number };
+  /** Return the power spectrum image (PNG) of every `every`-th frame. */
+  spectra?: { every: number };
   /**
    * Crop, background reference, flattening and smoothing before the threshold (the sides come
    * from `frame.boundary`). A background reference is passed to `runFrameJob` separately.
@@ -40,6 +42,7 @@ export interface FrameJobResult {
   domainRows?: Cell[][];
   tracking?: TrackingInput;
   overlayPng?: Uint8Array;
+  spectrumPng?: Uint8Array;
 }
 
 /** Keeps one analyzer (and preprocessor) per frame shape for the life of a thread. */
@@ -85,6 +88,11 @@ export function runFrameJob(
     const img = analyzer.overlay({ scale: options.overlay.scale });
     out.overlayPng = encodeRgbaPng(img.width, img.height, img.rgba);
   }
+  if (options.spectra && index % options.spectra.every === 0 && r.spectrum && r.spectrum.variance !== undefined) {
+    const peak = r.spectrum.peakQ;
+    const img = analyzer.spectrumImage(peak);
+    out.spectrumPng = encodeRgbaPng(img.width, img.height, img.data);
+  }
   if (options.tracking) {
     const d = r.domains;
     out.tracking = {
@@ -100,5 +108,6 @@ export function transferablesOf(result: FrameJobResult): ArrayBuffer[] {
   const t = result.tracking;
   if (t) out.push(...[t.labels.buffer, t.phase.buffer, t.area.buffer, t.centroidX.buffer, t.centroidY.buffer] as ArrayBuffer[]);
   if (result.overlayPng) out.push(result.overlayPng.buffer as ArrayBuffer);
+  if (result.spectrumPng) out.push(result.spectrumPng.buffer as ArrayBuffer);
   return out;
 }

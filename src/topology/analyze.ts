@@ -13,6 +13,7 @@ import { analyzeSkeletons, type SkeletonAnalysis, type ResolvedSkeletonOptions }
 import type { SkeletonColumns, PhaseSkeletonSummary } from "./classify";
 import { SkeletonWorkspace } from "../wasm/skeleton";
 import { overlayPixels, type OverlayImage, type OverlayOptions } from "../render/overlay";
+import { renderSpectrum, type SpectrumImage } from "../spectrum/render";
 
 /** Skeleton results of a frame: per-domain columns (row i = domain id i + 1) and per-phase summaries. */
 export interface FrameSkeletons {
@@ -189,6 +190,16 @@ export class FrameAnalyzer {
     const out: FrameSkeletons = { options: a.options, columns: a.columns, up: a.up, down: a.down };
     if (o.keepLabels) out.pruned = a.pruned;
     return out;
+  }
+
+  /**
+   * The last frame's power spectrum as an image: log-scaled, centred, the ring at q* marked
+   * (needs the spectrum to have been on, on a frame of at least 8 px a side).
+   */
+  spectrumImage(peakQ?: number): SpectrumImage {
+    if (!this.spectrumWs) throw new Error("spectrumImage: analyze a frame with the spectrum on first");
+    const power = this.spectrumWs.powerSpectrum();
+    return renderSpectrum(power, { ...(peakQ !== undefined ? { peakQ } : {}), format: "rgba" });
   }
 
   /**
