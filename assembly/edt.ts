@@ -8,115 +8,136 @@
 // takes the envelope over three copies. The image outside an open side is not the other phase.
 // Distances are centre to centre: a bar w pixels wide has 1 at its border pixels and
 // (w + 1) / 2 at its middle (odd w). A frame with no other-phase pixel in reach gives `cap`.
+//
+// Integer arithmetic throughout: column distances are i32 (capped at ceil(cap)), squared
+// distances and the envelope's key A_q = g_q^2 + q^2 are i64, and the envelope compares
+// intersections by cross-multiplication, so the inner loops hold no division and no modulo.
 import { W, H, PX, PY, PH } from "./common";
-
-const FAR: f32 = 1e30;
 
 @inline function ph(i: i32): i32 {
   return <i32>load<u8>(PH + <usize>i);
 }
-@inline function ldg(p: usize, i: i32): f32 {
-  return load<f32>(p + (<usize>i << 2));
+@inline function ldg(p: usize, i: i32): i32 {
+  return load<i32>(p + (<usize>i << 2));
 }
-@inline function stg(p: usize, i: i32, v: f32): void {
-  store<f32>(p + (<usize>i << 2), v);
+@inline function stg(p: usize, i: i32, v: i32): void {
+  store<i32>(p + (<usize>i << 2), v);
 }
 
-// Row scratch (carved from one block of 32 * (3W + 4) bytes): candidate positions and values
-// (f64), envelope vertex indices (i32, stored as f64 slots for alignment) and boundaries (f64).
+// Row scratch (carved from one block of 32 * (3W + 4) bytes): candidate positions (i32), their
+// keys A = g^2 + p^2 (i64) and the envelope's candidate indices (i32).
 let CP: usize = 0;
-let CF: usize = 0;
+let CA: usize = 0;
 let CV: usize = 0;
-let CZ: usize = 0;
 
-@inline function ld8(p: usize, k: i32): f64 { return load<f64>(p + (<usize>k << 3)); }
-@inline function st8(p: usize, k: i32, v: f64): void { store<f64>(p + (<usize>k << 3), v); }
+@inline function ldp(k: i32): i64 { return <i64>load<i32>(CP + (<usize>k << 2)); }
+@inline function lda(k: i32): i64 { return load<i64>(CA + (<usize>k << 3)); }
+@inline function ldv(k: i32): i32 { return load<i32>(CV + (<usize>k << 2)); }
 
-/** Lower envelope of candidates 0..n-1 (positions increasing), evaluated at positions x0..x1. */
+/**
+ * Lower envelope of candidates 0..n-1 (positions increasing), evaluated at the unwrapped
+ * positions x0..x1 of row `row` (x - w for x >= w). Distances above `cap` become `cap`.
+ */
 function envelope(n: i32, x0: i32, x1: i32, out: usize, row: i32, cap: f32): void {
+  // Parabola q: A_q - 2 q x + x^2. Intersection of r < q at s(r, q) = (A_q - A_r) / (2 (q - r));
+  // the top r is hidden when s(r, q) <= s(p, r) for the vertex p below it.
   let k = 0;
-  st8(CV, 0, 0);
-  st8(CZ, 0, -Infinity);
-  st8(CZ, 1, Infinity);
+  store<i32>(CV, 0);
   for (let q = 1; q < n; q++) {
-    const pq = ld8(CP, q), fq = ld8(CF, q) + pq * pq;
-    let s: f64 = 0;
-    while (true) {
-      const r = <i32>ld8(CV, k);
-      const pr = ld8(CP, r);
-      s = (fq - (ld8(CF, r) + pr * pr)) / (2 * pq - 2 * pr);
-      if (s <= ld8(CZ, k) && k > 0) { k--; continue; }
-      break;
+    const pq = ldp(q), aq = lda(q);
+    while (k > 0) {
+      const r = ldv(k), p = ldv(k - 1);
+      const pr = ldp(r), ar = lda(r), pp = ldp(p), ap = lda(p);
+      if ((aq - ar) * (pr - pp) <= (ar - ap) * (pq - pr)) k--;
+      else break;
     }
     k++;
-    st8(CV, k, <f64>q);
-    st8(CZ, k, s);
-    st8(CZ, k + 1, Infinity);
+    store<i32>(CV + (<usize>k << 2), q);
   }
+  const top = k;
   k = 0;
+  let r = ldv(0);
+  let pr = ldp(r), ar = lda(r);
   const w = W;
   for (let x = x0; x <= x1; x++) {
-    const fx = <f64>x;
-    while (ld8(CZ, k + 1) < fx) k++;
-    const r = <i32>ld8(CV, k);
-    const dp = fx - ld8(CP, r);
-    let d = <f32>Math.sqrt(dp * dp + ld8(CF, r));
+    const fx = <i64>x;
+    // Advance while the next envelope parabola is at least as low at x (their difference falls in x).
+    while (k < top) {
+      const r1 = ldv(k + 1);
+      const p1 = ldp(r1), a1 = lda(r1);
+      if (a1 - 2 * p1 * fx > ar - 2 * pr * fx) break;
+      k++; r = r1; pr = p1; ar = a1;
+    }
+    const d2 = ar - 2 * pr * fx + fx * fx;
+    let d = <f32>Math.sqrt(<f64>d2);
     if (d > cap) d = cap;
-    let xi = x % w;
-    if (xi < 0) xi += w;
-    stg(out, row + xi, d);
+    const xi = x >= w ? x - w : x;
+    store<f32>(out + (<usize>(row + xi) << 2), d);
   }
 }
 
-@inline function addCandidate(n: i32, pos: i32, g: f32): i32 {
-  st8(CP, n, <f64>pos);
-  st8(CF, n, <f64>g * <f64>g);
+@inline function addCandidate(n: i32, pos: i32, g: i32): i32 {
+  store<i32>(CP + (<usize>n << 2), pos);
+  const p = <i64>pos, gg = <i64>g;
+  store<i64>(CA + (<usize>n << 3), gg * gg + p * p);
   return n + 1;
 }
 
 /**
- * Distance (f32) from each pixel to the nearest pixel of the other phase into `out`; `g` is f32
- * scratch of W * H, `scratch` holds 32 * (3W + 4) bytes. Distances above `cap` become `cap`.
+ * Distance (f32) from each pixel to the nearest pixel of the other phase into `out`; `g` is
+ * 4-byte scratch of W * H (vertical distances, i32), `scratch` holds 32 * (3W + 4) bytes.
+ * Distances above `cap` become `cap`.
  */
 export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): void {
-  const w = W, h = H;
+  const w = W, h = H, n = w * h;
   const slots = 3 * w + 4;
-  CP = scratch; CF = CP + (<usize>slots << 3); CV = CF + (<usize>slots << 3); CZ = CV + (<usize>slots << 3);
-  // Column pass: vertical distance to the other phase in the same column.
-  for (let x = 0; x < w; x++) stg(g, x, FAR);
-  for (let y = 1; y < h; y++) {
-    const r = y * w;
-    for (let x = 0; x < w; x++) {
-      const i = r + x;
-      stg(g, i, ph(i) != ph(i - w) ? 1 : ldg(g, i - w) + 1);
-    }
+  CP = scratch; CV = CP + (<usize>slots << 2); CA = CV + (<usize>slots << 2);
+  // Vertical distances are capped at ceil(cap) + 1: a capped candidate is never below cap.
+  let far = <i32>Math.ceil(<f64>cap) + 1;
+  if (far < 1) far = 1;
+  // Column pass, row by row (contiguous): down, across the wrap, up, across the wrap.
+  for (let x = 0; x < w; x++) stg(g, x, far);
+  for (let i = w; i < n; i++) {
+    let c = ph(i) != ph(i - w) ? 1 : ldg(g, i - w) + 1;
+    if (c > far) c = far;
+    stg(g, i, c);
   }
   if (PY && h > 1) {
-    for (let y = 0; y < h; y++) {
-      const r = y * w, rp = (y == 0 ? h - 1 : y - 1) * w;
-      for (let x = 0; x < w; x++) {
-        const i = r + x, j = rp + x;
-        const c: f32 = ph(i) != ph(j) ? 1 : ldg(g, j) + 1;
-        if (c < ldg(g, i)) stg(g, i, c);
+    const last = (h - 1) * w;
+    for (let x = 0; x < w; x++) {
+      const c = ph(x) != ph(last + x) ? 1 : ldg(g, last + x) + 1;
+      if (c < ldg(g, x)) stg(g, x, c);
+    }
+    // A row where nothing improved ends the carry across the wrap (it only continues an improvement).
+    for (let y = 1; y < h; y++) {
+      let better = false;
+      for (let i = y * w, e = i + w; i < e; i++) {
+        const c = ph(i) != ph(i - w) ? 1 : ldg(g, i - w) + 1;
+        if (c < ldg(g, i)) { stg(g, i, c); better = true; }
       }
+      if (!better) break;
     }
   }
-  for (let y = h - 2; y >= 0; y--) {
-    const r = y * w;
+  for (let i = n - w - 1; i >= 0; i--) {
+    const j = i + w;
+    const c = ph(i) != ph(j) ? 1 : ldg(g, j) + 1;
+    if (c < ldg(g, i)) stg(g, i, c);
+  }
+  if (PY && h > 1) {
+    const last = (h - 1) * w;
     for (let x = 0; x < w; x++) {
-      const i = r + x, j = i + w;
-      const c: f32 = ph(i) != ph(j) ? 1 : ldg(g, j) + 1;
+      const i = last + x;
+      const c = ph(i) != ph(x) ? 1 : ldg(g, x) + 1;
       if (c < ldg(g, i)) stg(g, i, c);
     }
-  }
-  if (PY && h > 1) {
-    for (let y = h - 1; y >= 0; y--) {
-      const r = y * w, rn = (y == h - 1 ? 0 : y + 1) * w;
-      for (let x = 0; x < w; x++) {
-        const i = r + x, j = rn + x;
-        const c: f32 = ph(i) != ph(j) ? 1 : ldg(g, j) + 1;
-        if (c < ldg(g, i)) stg(g, i, c);
+    for (let y = h - 2; y >= 0; y--) {
+      let better = false;
+      for (let i = y * w, e = i + w; i < e; i++) {
+        const j = i + w;
+        const c = ph(i) != ph(j) ? 1 : ldg(g, j) + 1;
+        if (c < ldg(g, i)) { stg(g, i, c); better = true; }
       }
+      if (!better) break;
     }
   }
   // Row pass.
@@ -127,26 +148,30 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
     if (t < 0 && PX && w > 1 && ph(r) != ph(r + w - 1)) t = 0;
     if (t < 0) {
       // One phase along the whole row.
-      let n = 0;
+      let m = 0;
       if (PX) {
-        for (let x = -w; x < 2 * w; x++) n = addCandidate(n, x, ldg(g, r + ((x + w) % w)));
+        for (let x = 0; x < w; x++) m = addCandidate(m, x - w, ldg(g, r + x));
+        for (let x = 0; x < w; x++) m = addCandidate(m, x, ldg(g, r + x));
+        for (let x = 0; x < w; x++) m = addCandidate(m, x + w, ldg(g, r + x));
       } else {
-        for (let x = 0; x < w; x++) n = addCandidate(n, x, ldg(g, r + x));
+        for (let x = 0; x < w; x++) m = addCandidate(m, x, ldg(g, r + x));
       }
-      envelope(n, 0, w - 1, out, r, cap);
+      envelope(m, 0, w - 1, out, r, cap);
       continue;
     }
     if (PX) {
       // Walk unwrapped positions t .. t + w - 1; every run has other-phase bounds on both sides.
       let s = t;
-      while (s < t + w) {
-        const v = ph(r + (s % w));
+      const end = t + w;
+      while (s < end) {
+        const si = s >= w ? s - w : s;
+        const v = ph(r + si);
         let e = s;
-        while (e + 1 < t + w && ph(r + ((e + 1) % w)) == v) e++;
-        let n = addCandidate(0, s - 1, 0);
-        for (let x = s; x <= e; x++) n = addCandidate(n, x, ldg(g, r + (x % w)));
-        n = addCandidate(n, e + 1, 0);
-        envelope(n, s, e, out, r, cap);
+        while (e + 1 < end && ph(r + (e + 1 >= w ? e + 1 - w : e + 1)) == v) e++;
+        let m = addCandidate(0, s - 1, 0);
+        for (let x = s; x <= e; x++) m = addCandidate(m, x, ldg(g, r + (x >= w ? x - w : x)));
+        m = addCandidate(m, e + 1, 0);
+        envelope(m, s, e, out, r, cap);
         s = e + 1;
       }
     } else {
@@ -155,11 +180,11 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
         const v = ph(r + s);
         let e = s;
         while (e + 1 < w && ph(r + e + 1) == v) e++;
-        let n = 0;
-        if (s > 0) n = addCandidate(n, s - 1, 0);
-        for (let x = s; x <= e; x++) n = addCandidate(n, x, ldg(g, r + x));
-        if (e + 1 < w) n = addCandidate(n, e + 1, 0);
-        envelope(n, s, e, out, r, cap);
+        let m = 0;
+        if (s > 0) m = addCandidate(m, s - 1, 0);
+        for (let x = s; x <= e; x++) m = addCandidate(m, x, ldg(g, r + x));
+        if (e + 1 < w) m = addCandidate(m, e + 1, 0);
+        envelope(m, s, e, out, r, cap);
         s = e + 1;
       }
     }

@@ -18,7 +18,8 @@
 // decisions of the quads NE, NW, SW, SE of the pixel. Entry bit 0 = simple, bit 1 = end.
 //
 // SK (u8 per pixel): bit 0 = in the skeleton of its own phase, bit 1 = on the work list,
-// bit 2 = neighbourhood changed in this sweep, bit 3 / bit 4 = phase down / up.
+// bit 2 = neighbourhood changed in this sweep, bit 3 / bit 4 = phase down / up, bit 5 = on the
+// first or last row or column (EDGE).
 // Thinning phase v reads only pixels with PH == v as foreground, so the phases never interact.
 import { W, H, PX, PY, PH, RULE, joinsDiagonal } from "./common";
 
@@ -111,8 +112,37 @@ function buildTable(): void {
 let NE_: i32 = 0; let N_: i32 = 0; let NW_: i32 = 0; let W_: i32 = 0;
 let SW_: i32 = 0; let S_: i32 = 0; let SE_: i32 = 0; let E_: i32 = 0;
 
+// SK bit 5 marks the pixels of the first and last row and column: only they need the
+// wrap-aware (or open-side) neighbour indices; every other pixel has its ring at fixed offsets.
+const EDGE: i32 = 32;
+// Diagonal decision bits of the table index under a fixed rule, for the phase being thinned.
+let DIAG: i32 = 0;
+
 /** Neighbourhood code of pixel i in the skeleton of phase v (table index). */
-function gather(v: i32, i: i32): i32 {
+@inline function gather(v: i32, i: i32): i32 {
+  if ((<i32>load<u8>(SK + <usize>i) & EDGE) != 0) return gatherEdge(v, i);
+  const w = W;
+  E_ = i + 1; NE_ = i - w + 1; N_ = i - w; NW_ = i - w - 1;
+  W_ = i - 1; SW_ = i + w - 1; S_ = i + w; SE_ = i + w + 1;
+  const m = 1 | (8 << v);
+  const p = SK + <usize>i, uw = <usize>w;
+  let c = <i32>((<i32>load<u8>(p + 1) & m) == m) |
+    (<i32>((<i32>load<u8>(p - uw + 1) & m) == m) << 1) |
+    (<i32>((<i32>load<u8>(p - uw) & m) == m) << 2) |
+    (<i32>((<i32>load<u8>(p - uw - 1) & m) == m) << 3) |
+    (<i32>((<i32>load<u8>(p - 1) & m) == m) << 4) |
+    (<i32>((<i32>load<u8>(p + uw - 1) & m) == m) << 5) |
+    (<i32>((<i32>load<u8>(p + uw) & m) == m) << 6) |
+    (<i32>((<i32>load<u8>(p + uw + 1) & m) == m) << 7);
+  if (RULE != 2) return c | DIAG;
+  // Quads by top-left corner: NE (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y).
+  c |= (<i32>joinsDiagonal(v, i - w) << 8) | (<i32>joinsDiagonal(v, i - w - 1) << 9) |
+    (<i32>joinsDiagonal(v, i - 1) << 10) | (<i32>joinsDiagonal(v, i) << 11);
+  return c;
+}
+
+/** gather for a pixel of the first or last row or column: wrap-aware indices, -1 outside an open side. */
+function gatherEdge(v: i32, i: i32): i32 {
   const w = W, h = H;
   const y = i / w, x = i - y * w;
   const xm = x > 0 ? x - 1 : (WX ? w - 1 : -1);
@@ -130,9 +160,9 @@ function gather(v: i32, i: i32): i32 {
   SE_ = xp < 0 || yp < 0 ? -1 : rp + xp;
   let c = inSkel(v, E_) | (inSkel(v, NE_) << 1) | (inSkel(v, N_) << 2) | (inSkel(v, NW_) << 3) |
     (inSkel(v, W_) << 4) | (inSkel(v, SW_) << 5) | (inSkel(v, S_) << 6) | (inSkel(v, SE_) << 7);
-  // Quads by top-left corner: NE (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y). Where a quad
-  // leaves an open side its decision never matters (it cannot hold a diagonal skeleton pair).
-  if (RULE != 2) return c | (joinsDiagonal(v, 0) ? 0xf00 : 0);
+  // Where a quad leaves an open side its decision never matters (it cannot hold a diagonal
+  // skeleton pair).
+  if (RULE != 2) return c | DIAG;
   const qx0 = xm < 0 ? x : xm, qy0 = ym < 0 ? y : ym;
   const dNE = <i32>joinsDiagonal(v, qy0 * w + x);
   const dNW = <i32>joinsDiagonal(v, qy0 * w + qx0);
@@ -140,6 +170,22 @@ function gather(v: i32, i: i32): i32 {
   const dSE = <i32>joinsDiagonal(v, r0 + x);
   c |= (dNE << 8) | (dNW << 9) | (dSW << 10) | (dSE << 11);
   return c;
+}
+
+/** SK of every pixel at the start: in the skeleton, its phase (bit 3 down, bit 4 up), EDGE on the frame's rim. */
+function initSkeleton(): void {
+  const w = W, h = H, n = w * h;
+  for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  for (let x = 0; x < w; x++) {
+    store<u8>(SK + <usize>x, load<u8>(SK + <usize>x) | EDGE);
+    const j = (h - 1) * w + x;
+    store<u8>(SK + <usize>j, load<u8>(SK + <usize>j) | EDGE);
+  }
+  for (let y = 0; y < h; y++) {
+    const a = y * w, b = a + w - 1;
+    store<u8>(SK + <usize>a, load<u8>(SK + <usize>a) | EDGE);
+    store<u8>(SK + <usize>b, load<u8>(SK + <usize>b) | EDGE);
+  }
 }
 
 @inline function entry(code: i32): i32 {
@@ -218,6 +264,11 @@ function sweepSequential(v: i32): i32 {
 @inline function blockAt(v: i32, i: i32): bool {
   // 2x2 block with top-left i (wrapping where periodic); false where it leaves an open side.
   const w = W, h = H;
+  if ((<i32>load<u8>(SK + <usize>i) & EDGE) == 0) {
+    const m = 1 | (8 << v);
+    return (<i32>load<u8>(SK + <usize>i) & m) == m && (<i32>load<u8>(SK + <usize>(i + 1)) & m) == m &&
+      (<i32>load<u8>(SK + <usize>(i + w)) & m) == m && (<i32>load<u8>(SK + <usize>(i + w + 1)) & m) == m;
+  }
   const y = i / w, x = i - y * w;
   const xp = x + 1 < w ? x + 1 : (WX ? 0 : -1);
   const yp = y + 1 < h ? y + 1 : (WY ? 0 : -1);
@@ -300,9 +351,8 @@ export function thinPhase(v: i32): i32 {
   WX = PX && w >= 3;
   WY = PY && h >= 3;
   NLIST = 0;
-  if (v == 1) {
-    for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
-  }
+  DIAG = joinsDiagonal(v, 0) ? 0xf00 : 0;
+  if (v == 1) initSkeleton();
   // Initial border: phase-v pixels with a 4-neighbour outside the skeleton.
   for (let i = 0; i < n; i++) {
     if (!inSkel(v, i)) continue;
@@ -364,7 +414,7 @@ export function thinByDistance(dist: usize, counts: usize, levels: i32): i32 {
   const w = W, h = H, n = w * h;
   WX = PX && w >= 3;
   WY = PY && h >= 3;
-  for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  initSkeleton();
   // Counting sort of the pixels by level into LB2.
   memory.fill(counts, 0, <usize>(levels + 1) << 2);
   const top = levels - 1;
@@ -381,14 +431,17 @@ export function thinByDistance(dist: usize, counts: usize, levels: i32): i32 {
     stl(LB2, k, i);
     stl(counts, l, k + 1);
   }
+  const d1 = joinsDiagonal(1, 0) ? 0xf00 : 0, d0 = joinsDiagonal(0, 0) ? 0xf00 : 0;
   for (let k = 0; k < n; k++) {
     const i = ldl(LB2, k);
     const v = <i32>load<u8>(PH + <usize>i) != 0 ? 1 : 0;
+    DIAG = v == 1 ? d1 : d0;
     if (entry(gather(v, i)) == 1) setSkel(i, false);
   }
   let left = 0;
   NLIST = 0;
   for (let v = 1; v >= 0; v--) {
+    DIAG = v == 1 ? d1 : d0;
     listAll(v);
     sweepSequential(v);
     compactList(false);

@@ -1,10 +1,48 @@
-// Thinning + skeleton graph + classification of both phases of generated mazes, against a
-// plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases in the same run.
-// Run: npx tsx bench/skeleton.bench.ts   (seeded inputs; no I/O in the timed part)
-import Benchmark from "benchmark";
+// Thinning + skeleton graph + classification of both phases of generated mazes: this tree
+// ("after") against an earlier revision ("before", the same sources at git revision
+// SKELETON_BEFORE, default 9fa6ac9, built once into the temp folder outside the timed part) and
+// a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
+// Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the skeleton
+// graph (TS, from a thinned frame), and the whole analyzeSkeletons call.
+//
+// The machine is usually shared: candidates are timed in interleaved rounds (every candidate
+// once per round, rotated order), each ratio is taken within a round, and medians over rounds
+// are quoted. Run: npx tsx bench/skeleton.bench.ts [--quick] [--rounds N]
+// (seeded inputs; no I/O in the timed part)
+import { execSync } from "node:child_process";
+import { existsSync, mkdirSync, symlinkSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { dirname, join } from "node:path";
+import { fileURLToPath, pathToFileURL } from "node:url";
 import { LabelingWorkspace } from "../src/wasm/labeling";
-import { SkeletonWorkspace } from "../src/wasm/skeleton";
-import { analyzeSkeletons } from "../src/topology/skeleton-analysis";
+import * as afterWasm from "../src/wasm/skeleton";
+import * as afterInstance from "../src/wasm/instance";
+import * as afterGraph from "../src/topology/skeleton";
+import * as afterAnalysis from "../src/topology/skeleton-analysis";
+
+const quick = process.argv.includes("--quick");
+const roundsArg = process.argv.indexOf("--rounds");
+const rounds = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : quick ? 7 : 21;
+const root = join(dirname(fileURLToPath(import.meta.url)), "..");
+const beforeRev = process.env.SKELETON_BEFORE ?? "9fa6ac9";
+
+/** The sources of `rev` with their kernels built, in a temp folder (made once per revision). */
+function beforeTree(rev: string): string {
+  const dir = join(tmpdir(), `domtopo-skeleton-before-${rev}`);
+  if (existsSync(join(dir, "src/wasm/kernel-binary.ts"))) return dir;
+  mkdirSync(dir, { recursive: true });
+  execSync(`git archive ${rev} assembly src scripts asconfig.json package.json | tar -x -C "${dir}"`, { cwd: root, stdio: "inherit" });
+  if (!existsSync(join(dir, "node_modules"))) symlinkSync(join(root, "node_modules"), join(dir, "node_modules"));
+  execSync(`node "${join(root, "node_modules/assemblyscript/bin/asc.js")}" assembly/index.ts --target release`, { cwd: dir, stdio: "inherit" });
+  execSync("node scripts/embed-wasm.mjs", { cwd: dir, stdio: "inherit" });
+  return dir;
+}
+const bdir = beforeTree(beforeRev);
+const load = (p: string) => import(pathToFileURL(join(bdir, p)).href);
+const beforeWasm: typeof afterWasm = await load("src/wasm/skeleton.ts");
+const beforeInstance: typeof afterInstance = await load("src/wasm/instance.ts");
+const beforeGraph: typeof afterGraph = await load("src/topology/skeleton.ts");
+const beforeAnalysis: typeof afterAnalysis = await load("src/topology/skeleton-analysis.ts");
 
 /** Seeded maze: white noise, three box blurs (radius r, wrapping), split at the median. */
 function maze(n: number, seed: number, r: number): Uint8Array {
@@ -69,39 +107,83 @@ function median(sample: number[]): number {
   return s.length % 2 ? s[s.length >> 1]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2;
 }
 
-const results: Array<{ size: number; name: string; ms: number }> = [];
-for (const size of [512, 1024]) {
+interface Candidate { name: string; run: () => void; ms: number[]; reps: number }
+interface Side { wasm: typeof afterWasm; instance: typeof afterInstance; graph: typeof afterGraph; analysis: typeof afterAnalysis }
+const sides: Array<[string, Side]> = [
+  ["before", { wasm: beforeWasm, instance: beforeInstance, graph: beforeGraph, analysis: beforeAnalysis }],
+  ["after", { wasm: afterWasm, instance: afterInstance, graph: afterGraph, analysis: afterAnalysis }],
+];
+const PASSES = ["distance", "thinning + distance", "graph", "thinning + graph + classification"] as const;
+
+const sizes = quick ? [512] : [512, 1024];
+const candidates: Candidate[] = [];
+const add = (name: string, run: () => void) => candidates.push({ name, run, ms: [], reps: 1 });
+for (const size of sizes) {
   const phase = maze(size, 12345 + size, size === 512 ? 4 : 8);
   const lab = new LabelingWorkspace(size, size);
   lab.loadPhase(phase);
   const count = lab.label(0, true, true);
   const labels = lab.labels().slice();
-  const sws = new SkeletonWorkspace(size, size);
-  const img = new Uint8Array(size * size), del = new Int32Array(size * size);
-  const frame = { width: size, height: size, phase, labels, count };
-  const first = analyzeSkeletons(frame, { boundary: "periodic" }, sws);
-  console.log(`${size} x ${size} maze: ${count} domains; up ${first.up.labyrinth.count} labyrinths, ` +
-    `${first.up.stripe.count} stripes, ${first.up.bubble.count} bubbles; ends/area ${(first.up.endsDensity * 1e4).toFixed(2)}e-4`);
-  const suite = new Benchmark.Suite();
-  suite
-    .add(`${size} thinning + distance (Wasm)`, () => { sws.run(phase, { periodicX: true, periodicY: true, rule: 0 }); })
-    .add(`${size} thinning + graph + classification`, () => { analyzeSkeletons(frame, { boundary: "periodic" }, sws); })
-    .add(`${size} distance-order thinning + distance (Wasm)`, () => { sws.run(phase, { periodicX: true, periodicY: true, rule: 0, order: "distance" }); })
-    .add(`${size} distance-order thinning + graph + classification`, () => { analyzeSkeletons(frame, { boundary: "periodic", thinning: "distance" }, sws); })
-    .add(`${size} Zhang-Suen plain TS`, () => { zhangSuen(phase, size, size, 1, img, del); zhangSuen(phase, size, size, 0, img, del); })
-    .on("cycle", (e: Benchmark.Event) => {
-      const b = e.target as unknown as Benchmark & { stats: { sample: number[] } };
-      const ms = median(b.stats.sample) * 1e3;
-      results.push({ size, name: String(b.name), ms });
-      console.log(`  ${b.name}: median ${ms.toFixed(2)} ms (${b.stats.sample.length} samples)`);
-    })
-    .run({ async: false, maxTime: size === 512 ? 3 : 4 });
-  sws.dispose();
   lab.dispose();
-  const get = (k: string) => results.find((r) => r.size === size && r.name === `${size} ${k}`)!.ms;
-  const zs = get("Zhang-Suen plain TS");
-  for (const k of ["thinning + distance (Wasm)", "thinning + graph + classification",
-    "distance-order thinning + distance (Wasm)", "distance-order thinning + graph + classification"]) {
-    console.log(`  Zhang-Suen / ${k}: ${(zs / get(k)).toFixed(2)}x`);
+  const frame = { width: size, height: size, phase, labels, count };
+  const geometry = { periodicX: true, periodicY: true, rule: 0 as const };
+  const summary: string[] = [];
+  for (const [side, m] of sides) {
+    const ws = new m.wasm.SkeletonWorkspace(size, size);
+    const first = m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws);
+    summary.push(`${side}: up ${first.up.labyrinth.count} labyrinths, ${first.up.stripe.count} stripes, ` +
+      `${first.up.bubble.count} bubbles, ends/area ${(first.up.endsDensity * 1e4).toFixed(2)}e-4`);
+    const r = ws.run(phase, geometry);
+    const input = { ...frame, skeleton: r.skeleton.slice(), distance: r.distance.slice(), ...geometry };
+    // The distance pass alone, on the workspace's buffers (its fields: bench only), after its
+    // own geometry is bound (workspaces of other sizes share the instance).
+    const k = m.instance.kernels() as unknown as {
+      setGeometry(w: number, h: number, px: number, py: number, rule: number): void;
+      setBuffers(ph: number, lb: number, pa: number, qm: number): void;
+      distancePhases(o: number, g: number, s: number, cap: number): void;
+    };
+    const p = ws as unknown as { ph: number; qm: number; dist: number; vert: number; scratch: number };
+    add(`${size} ${side} distance`, () => {
+      k.setGeometry(size, size, 1, 1, 0);
+      k.setBuffers(p.ph, 0, 0, p.qm);
+      k.distancePhases(p.dist, p.vert, p.scratch, 2 * size);
+    });
+    add(`${size} ${side} thinning + distance`, () => { ws.run(phase, geometry); });
+    add(`${size} ${side} graph`, () => { m.graph.skeletonGraph(input, { spurFactor: 3, junctionMergeFactor: 1 }); });
+    add(`${size} ${side} thinning + graph + classification`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws); });
   }
+  console.log(`${size} x ${size} periodic maze, ${count} domains; ${summary.join("; ")}`);
+  const img = new Uint8Array(size * size), del = new Int32Array(size * size);
+  add(`${size} Zhang-Suen plain TS`, () => { zhangSuen(phase, size, size, 1, img, del); zhangSuen(phase, size, size, 0, img, del); });
+}
+// Warm up, and pick repetitions so that a timed batch lasts at least ~20 ms.
+for (const c of candidates) {
+  c.run();
+  const t0 = performance.now();
+  c.run();
+  const once = Math.max(0.01, performance.now() - t0);
+  c.reps = Math.max(1, Math.min(100, Math.round(20 / once)));
+}
+for (let r = 0; r < rounds; r++) {
+  for (let j = 0; j < candidates.length; j++) {
+    const c = candidates[(j + r) % candidates.length]!;
+    const t0 = performance.now();
+    for (let q = 0; q < c.reps; q++) c.run();
+    c.ms.push((performance.now() - t0) / c.reps);
+  }
+}
+const byName = new Map(candidates.map((c) => [c.name, c]));
+/** Median over rounds of a.ms[r] / b.ms[r]. */
+const ratio = (a: Candidate, b: Candidate) => median(a.ms.map((v, r) => v / b.ms[r]!));
+console.log(`\n${rounds} interleaved rounds; median ms per frame (both phases); before/after and Zhang-Suen/after = median per-round ratios`);
+for (const size of sizes) {
+  const zs = byName.get(`${size} Zhang-Suen plain TS`)!;
+  console.log(`\n${size} x ${size}`);
+  console.log(`  ${"pass".padEnd(36)}${"before".padStart(10)}${"after".padStart(10)}${"before/after".padStart(14)}${"ZS/after".padStart(10)}`);
+  for (const pass of PASSES) {
+    const b = byName.get(`${size} before ${pass}`)!, a = byName.get(`${size} after ${pass}`)!;
+    console.log(`  ${pass.padEnd(36)}${median(b.ms).toFixed(2).padStart(10)}${median(a.ms).toFixed(2).padStart(10)}` +
+      `${(ratio(b, a).toFixed(2) + "x").padStart(14)}${(ratio(zs, a).toFixed(2) + "x").padStart(10)}`);
+  }
+  console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(36)}${median(zs.ms).toFixed(2).padStart(20)}`);
 }

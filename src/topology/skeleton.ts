@@ -88,6 +88,7 @@ export function prunedSkeleton(g: SkeletonGraph): Uint8Array {
 }
 
 const SQRT2 = Math.SQRT2;
+const CHORD = Float64Array.from({ length: 9 }, (_v, k) => Math.hypot(Math.floor(k / 3), k % 3) / 2);
 
 // Per-pixel scratch, kept between calls of one frame size (a movie reuses it).
 let pooled: { n: number; deg: Uint8Array; nbr: Int32Array; node: Int32Array; seen: Uint8Array } | undefined;
@@ -144,19 +145,22 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
       deg[i] = d;
     }
   }
+  // Neighbours differ by a column and a row exactly when their index difference is not +-1 or
+  // +-w (+-(w - 1) and +-(h - 1) w across a periodic wrap).
   const step = (a: number, b: number): number => {
     const ax = a % w, bx = b % w;
-    const ay = (a - ax) / w, by = (b - bx) / w;
-    return ax !== bx && ay !== by ? SQRT2 : 1;
+    return ax !== bx && a - ax !== b - bx ? SQRT2 : 1;
   };
   // Half the chord to the pixel two steps back: straight runs count 1 a step, diagonal runs
-  // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps).
+  // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps). Two steps
+  // apart, |dx| and |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2.
   const chord = (a: number, b: number): number => {
     const ax = a % w, bx = b % w;
-    let dx = Math.abs(bx - ax), dy = Math.abs((a - ax) / w - (b - bx) / w);
+    let dx = bx > ax ? bx - ax : ax - bx;
+    let dy = Math.abs(a - ax - (b - bx)) / w;
     if (px && dx > w / 2) dx = w - dx;
     if (py && dy > h / 2) dy = h - dy;
-    return Math.hypot(dx, dy) / 2;
+    return dx <= 2 && dy <= 2 ? CHORD[3 * dx + dy]! : Math.hypot(dx, dy) / 2;
   };
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
   const node = pool.node;
@@ -281,7 +285,12 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
   for (let b = 0; b < g.branchCount; b++) {
     if (A[b]! >= 0) { at[A[b]!]!.push(b); at[B[b]!]!.push(b); }
   }
-  const liveAt = (v: number) => [...new Set(at[v]!)].filter((b) => alive[b]);
+  // Live branches at v, each once, in the order they joined v.
+  const liveAt = (v: number): number[] => {
+    const out: number[] = [];
+    for (const b of at[v]!) if (alive[b] && !out.includes(b)) out.push(b);
+    return out;
+  };
   const other = (b: number, v: number) => (A[b] === v ? B[b]! : A[b]!);
   // A node whose degree fell to 2 joins its two branches (or turns its loop into a ring).
   const dissolve = (v: number) => {
@@ -345,7 +354,8 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     // junctions does not collapse into one node; a thinned crossing becomes one degree-4 node.
     const shortest = (v: number): number => {
       let best = -1;
-      for (const e of liveAt(v)) {
+      for (const e of at[v]!) {
+        if (!alive[e]) continue; // (a repeated entry cannot change a strict minimum)
         const x = other(e, v);
         if (x === v || x < 0 || deg[x]! < 3) continue;
         if (best < 0 || L[e]! < L[best]!) best = e;

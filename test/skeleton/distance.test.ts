@@ -40,4 +40,17 @@ describe("distance to the other phase", () => {
     const d = thinPhases(phase, w, h, { periodicX: false, periodicY: false, rule: 0 }).distance;
     expect([d[3], d[4], d[0], d[8]]).toEqual([1, 1, 4, 5]);
   });
+  it("matches brute force where whole rows or columns hold one phase (horizontal and vertical bands, open and periodic)", () => {
+    for (let s = 0; s < 16; s++) {
+      const w = 11 + (s % 4) * 5, h = 9 + (s % 3) * 6;
+      const px = s % 2 === 1, py = (s >> 1) % 2 === 1;
+      const phase = new Uint8Array(w * h);
+      for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) {
+        phase[y * w + x] = s < 8 ? (y % 7 < 3 ? 1 : 0) : (x % 6 < 2 || (x === 4 && y === 3) ? 1 : 0);
+      }
+      const { distance } = thinPhases(phase, w, h, { periodicX: px, periodicY: py, rule: 0 });
+      const ref = brute(phase, w, h, px, py, w + h);
+      for (let i = 0; i < w * h; i++) expect(distance[i], `frame ${s} pixel ${i}`).toBeCloseTo(ref[i]!, 4);
+    }
+  });
 });

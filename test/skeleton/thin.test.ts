@@ -85,4 +85,17 @@ describe("thinning", () => {
     expect(upSkel).toBeGreaterThanOrEqual(6);
     expect(upSkel).toBeLessThanOrEqual(10);
   });
+  it("keeps topology on frames only a few pixels wide or high, where most pixels lie on the rim", () => {
+    for (let s = 0; s < 48; s++) {
+      const narrow = 1 + (s % 5), long = 20 + (s % 7) * 3;
+      const [w, h] = s % 2 === 0 ? [narrow, long] : [long, narrow];
+      // (A periodic axis narrower than 3 pixels is treated as open by the kernel: not wrapped here.)
+      const px = (s >> 1) % 2 === 1 && w >= 3, py = (s >> 2) % 2 === 1 && h >= 3;
+      const phase = noiseFrame(w, h, 11000 + s, 1, 1, 0.3 + 0.4 * ((s * 5) % 7) / 6);
+      const r = check(phase, w, h, px, py, (s % 3 === 2 ? 1 : 0) as 0 | 1);
+      expect(r.skelDomains, `frame ${s}`).toBe(r.L.count);
+      expect(Array.from(r.after), `frame ${s}`).toEqual(Array.from(r.before));
+      expect(r.blocks, `frame ${s}`).toBe(0);
+    }
+  });
 });
