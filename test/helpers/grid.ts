@@ -1,5 +1,6 @@
 // Frames drawn as grids of '#' (up) and '.' (down), and the symmetries of the square lattice.
 import type { Frame } from "../../src/types";
+import { uniformSource } from "../../src/demo/random";
 
 export function grid(...rows: string[]): Frame & { data: Uint8Array } {
   const lines = rows.flatMap((r) => r.split("\n")).map((r) => r.trim()).filter((r) => r.length > 0);
@@ -50,14 +51,7 @@ export function transpose(f: Frame & { data: Uint8Array }) {
 
 /** Seeded random 0/1 frame with up-probability p, optionally smoothed by a box of radius r. */
 export function randomFrame(seed: number, w: number, h: number, p: number, r = 0) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const u = uniformSource(seed);
   const noise = new Float64Array(w * h).map(() => u());
   const data = new Uint8Array(w * h);
   if (r === 0) {

@@ -1,17 +1,9 @@
 // Test inputs built byte by byte from the published format descriptions (Node-only helpers).
+import { uniformSource } from "../../src/demo/random";
 import { crc32, deflateSync } from "node:zlib";
 
-/** Deterministic pseudo-random integers (mulberry32, seeded). */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded uniform numbers in [0, 1): the project's mulberry32 (src/demo/random.ts). */
+export const seeded = uniformSource;
 
 export function concat(parts: readonly Uint8Array[]): Uint8Array {
   const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));

@@ -1,18 +1,10 @@
 // Seeded random 0/1 phase maps for the agreement tests: white noise, or noise smoothed by a box
 // filter (wrapping, so periodic frames have no seam) and cut at its quantile, which gives blobs,
 // stripes and mazes of a chosen up fraction.
+import { uniformSource } from "../../src/demo/random";
 
-/** mulberry32 (Tommy Ettinger, public domain): a small, fast 32-bit seeded generator. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded uniform numbers in [0, 1): the project's mulberry32 (src/demo/random.ts). */
+export const mulberry32 = uniformSource;
 
 export interface RandomPhaseMap {
   width: number;

@@ -1,5 +1,6 @@
 // Plain-TS helpers for the skeleton tests: seeded frames, a flood-fill labeling with the same
 // connectivity rules as the kernels, per-domain Euler numbers by bit-quads, grid drawings.
+import { uniformSource } from "../../src/demo/random";
 
 export interface Labeled {
   width: number;
@@ -13,17 +14,8 @@ export interface Labeled {
   flags: Uint8Array;
 }
 
-/** Mulberry32 (common practice seeded PRNG). */
-export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded uniform numbers in [0, 1): the project's mulberry32 (src/demo/random.ts). */
+export const rng = uniformSource;
 
 /** Smoothed white noise (box blur `passes` times with radius r, wrapping), thresholded at fraction `up`. */
 export function noiseFrame(w: number, h: number, seed: number, r: number, passes: number, up: number): Uint8Array {

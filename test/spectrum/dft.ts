@@ -1,4 +1,5 @@
 // Reference transforms for the FFT tests: a direct separable DFT in f64.
+import { uniformSource } from "../../src/demo/random";
 
 /** Direct 2-D DFT of a real w x h frame: returns re, im of X(kx, ky) at [ky * w + kx]. */
 export function directDft2(data: ArrayLike<number>, w: number, h: number): { re: Float64Array; im: Float64Array } {
@@ -33,14 +34,5 @@ export function directDft2(data: ArrayLike<number>, w: number, h: number): { re:
   return { re, im };
 }
 
-/** Mulberry32: a small seeded generator for test inputs. */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded uniform numbers in [0, 1): the project's mulberry32 (src/demo/random.ts). */
+export const seeded = uniformSource;
