@@ -8,8 +8,8 @@ import { frameRow, domainHeader, domainRows, csvLine, type Cell } from "../topol
 import { demoSweep } from "../demo/sweep";
 import { AtomicWriter, writeFileAtomic } from "../node/atomic";
 import { Progress } from "./progress";
-import { encodeGreyPng } from "./frames-png";
-import { encodeRgbaPng } from "../io/png";
+
+import { encodePng, encodeRgbaPng } from "../io/png";
 import type { PreprocessOptions } from "../prep/preprocess";
 import { listFrameFiles, openFrameFiles } from "../io/node-source";
 import { fieldsFromList, fieldsFromNames, fieldsFromSweep, fieldsFromTable, type FieldValues } from "../io/fields";
@@ -247,7 +247,7 @@ async function runDemo(argv: string[]): Promise<number> {
     for (let k = 0; k < sweep.fields.length; k++) {
       const frame = sweep.frame(k);
       const name = `frame-${String(k).padStart(4, "0")}.png`;
-      writeFileAtomic(join(out, "frames", name), encodeGreyPng(frame));
+      writeFileAtomic(join(out, "frames", name), encodePng(frame));
       fieldsCsv.write(csvLine([k, name, sweep.fields[k]!]));
       const t0 = performance.now();
       const r = writeRow(tables, [["frame", k], [fieldCol, sweep.fields[k]!]], analyzer, frame, options, `demo frame ${k}`);

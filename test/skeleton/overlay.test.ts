@@ -3,7 +3,7 @@ import { writeFileSync } from "node:fs";
 import UPNG from "upng-js";
 import { analyzeSkeletons } from "../../src/topology/skeleton-analysis";
 import { overlayPixels } from "../../src/render/overlay";
-import { encodePng } from "../../src/render/png";
+import { encodeRgbaPng } from "../../src/io/png";
 import { noiseFrame, label } from "./helpers";
 import * as S from "./shapes";
 
@@ -31,8 +31,8 @@ describe("overlay", () => {
       const a = analyzeSkeletons({ ...f, labels: L.labels, count: L.count }, { boundary: periodic ? "periodic" : "open" });
       const img = overlayPixels(a, f.width, f.height, f.phase, L.labels, { scale: 4 });
       expect(img.rgba.length).toBe(f.width * 4 * f.height * 4 * 4);
-      const png = encodePng(img);
-      const back = UPNG.decode(png);
+      const png = encodeRgbaPng(img.width, img.height, img.rgba);
+      const back = UPNG.decode(png.slice().buffer as ArrayBuffer);
       expect([back.width, back.height]).toEqual([img.width, img.height]);
       writeFileSync(`/tmp/domtopo-skeleton-${name}.png`, png);
     }
