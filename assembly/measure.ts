@@ -7,7 +7,7 @@
 //    both diagonals that the Crofton wall-length estimate needs (Ohser & Muecklich 2000).
 import {
   W, H, PX, PY, RULE, PH, PA, QM, LB,
-  phaseAt, labelAt, setLabel, ldi, sti, ldf, stf,
+  phaseAt, labelAt, ldi, sti, ldf, stf, runEnd, fillRunExact,
 } from "./common";
 
 // Domain columns, indexed by domain id 1..K. i32 columns:
@@ -99,8 +99,8 @@ function clearDomains(K: i32): void {
   }
 }
 
-/** Adds the run x0..x1 of row y (component c, domain d) to d's accumulators. */
-function addRun(d: i32, c: i32, x0: i32, x1: i32, y: i32, periodic: bool): void {
+/** Adds the run x0..x1 of row y (component c, domain d, phase v) to d's accumulators. */
+function addRun(d: i32, c: i32, v: i32, x0: i32, x1: i32, y: i32, periodic: bool): void {
   let sx = 0, sy = 0, wf = 0;
   if (periodic) {
     sx = ldi(C_SX, c); sy = ldi(C_SY, c);
@@ -127,7 +127,6 @@ function addRun(d: i32, c: i32, x0: i32, x1: i32, y: i32, periodic: bool): void 
   // Runs end where the phase changes (same-phase row neighbours always join), so each end
   // inside the row, or across a periodic side of another phase, is one row change (N0).
   const row = y * W;
-  const v = phaseAt(row + x0);
   sti(D_PHASE, d, v);
   let ends = <i32>(x0 > 0) + <i32>(x1 < W - 1);
   if (PX) {
@@ -153,33 +152,18 @@ export function measureRuns(K: i32, periodic: bool): void {
   const w = W, h = H;
   for (let y = 0; y < h; y++) {
     const row = y * w;
-    let x = 0;
-    while (x < w) {
-      // One run: pixels of the same component; provisional labels are rewritten as we go, four
-      // at a time while they repeat (SIMD), one at a time where they change.
-      let lp = labelAt(row + x);
-      const c = ldi(PA, lp);
+    const pr = PH + <usize>row;
+    let x0 = 0;
+    while (x0 < w) {
+      // One run: pixels of one phase, so of one component (same-phase row neighbours always
+      // join); its provisional labels, whatever they are, become the domain id.
+      const v = <i32>load<u8>(pr + <usize>x0);
+      const x1 = runEnd(pr, x0 + 1, w, i8x16.splat(<i8>v)) - 1;
+      const c = ldi(PA, labelAt(row + x0));
       const d = periodic ? ldi(C_FIN, c) : c;
-      const vd = i32x4.splat(d);
-      const x0 = x;
-      setLabel(row + x, d);
-      x++;
-      while (x < w) {
-        const lq = labelAt(row + x);
-        if (lq != lp) {
-          if (ldi(PA, lq) != c) break;
-          lp = lq;
-        }
-        const at = LB + (<usize>(row + x) << 2);
-        if (x + 4 <= w && v128.all_true<i32>(i32x4.eq(v128.load(at), i32x4.splat(lp)))) {
-          v128.store(at, vd);
-          x += 4;
-        } else {
-          store<i32>(at, d);
-          x++;
-        }
-      }
-      addRun(d, c, x0, x - 1, y, periodic);
+      fillRunExact(row + x0, row + x1, d);
+      addRun(d, c, v, x0, x1, y, periodic);
+      x0 = x1 + 1;
     }
   }
 }
