@@ -1,12 +1,13 @@
 // Per-domain accumulators and per-frame quad statistics, after labeling.
 //  - measureRuns: final labels, area, bounding box, first and second moments in unwrapped
 //    coordinates, circular means for wrapping axes, edge flags; summed over horizontal runs.
+//    Also each domain's phase changes along rows (N0), from the ends of its runs.
 //  - measureQuads: the 2x2 bit-quad histogram (Gray 1971, IEEE Trans. Comput. C-20:551), each
-//    domain's Euler number from its own quad patterns, and the phase changes along the four grid
-//    directions that the Crofton wall-length estimate needs (Ohser & Muecklich 2000).
+//    domain's Euler number from its own quad patterns, and the phase changes along columns and
+//    both diagonals that the Crofton wall-length estimate needs (Ohser & Muecklich 2000).
 import {
   W, H, PX, PY, RULE, PH, PA, QM, LB,
-  phaseAt, labelAt, setLabel, ldi, sti, ldf, stf,
+  phaseAt, labelAt, ldi, sti, ldf, stf, runEnd, fillRunExact,
 } from "./common";
 
 // Domain columns, indexed by domain id 1..K. i32 columns:
@@ -98,8 +99,8 @@ function clearDomains(K: i32): void {
   }
 }
 
-/** Adds the run x0..x1 of row y (component c, domain d) to d's accumulators. */
-function addRun(d: i32, c: i32, x0: i32, x1: i32, y: i32, periodic: bool): void {
+/** Adds the run x0..x1 of row y (component c, domain d, phase v) to d's accumulators. */
+function addRun(d: i32, c: i32, v: i32, x0: i32, x1: i32, y: i32, periodic: bool): void {
   let sx = 0, sy = 0, wf = 0;
   if (periodic) {
     sx = ldi(C_SX, c); sy = ldi(C_SY, c);
@@ -123,7 +124,16 @@ function addRun(d: i32, c: i32, x0: i32, x1: i32, y: i32, periodic: bool): void 
   let f = ldi(D_FLAGS, d) | wf;
   if ((!PX && (x0 == 0 || x1 == W - 1)) || (!PY && (y == 0 || y == H - 1))) f |= 4;
   sti(D_FLAGS, d, f);
-  sti(D_PHASE, d, phaseAt(y * W + x0));
+  // Runs end where the phase changes (same-phase row neighbours always join), so each end
+  // inside the row, or across a periodic side of another phase, is one row change (N0).
+  const row = y * W;
+  sti(D_PHASE, d, v);
+  let ends = <i32>(x0 > 0) + <i32>(x1 < W - 1);
+  if (PX) {
+    const across = <i32>(phaseAt(row) != phaseAt(row + W - 1));
+    ends += (<i32>(x0 == 0) + <i32>(x1 == W - 1)) * across;
+  }
+  sti(D_N0, d, ldi(D_N0, d) + ends);
   if (wf != 0) {
     stf(D_CXC, d, ldf(D_CXC, d) + ldf(T_CX, x1 + 1) - ldf(T_CX, x0));
     stf(D_CXS, d, ldf(D_CXS, d) + ldf(T_SX, x1 + 1) - ldf(T_SX, x0));
@@ -138,36 +148,22 @@ function addRun(d: i32, c: i32, x0: i32, x1: i32, y: i32, periodic: bool): void 
  */
 export function measureRuns(K: i32, periodic: bool): void {
   clearDomains(K);
+  LASTK = K;
   const w = W, h = H;
   for (let y = 0; y < h; y++) {
     const row = y * w;
-    let x = 0;
-    while (x < w) {
-      // One run: pixels of the same component; provisional labels are rewritten as we go, four
-      // at a time while they repeat (SIMD), one at a time where they change.
-      let lp = labelAt(row + x);
-      const c = ldi(PA, lp);
+    const pr = PH + <usize>row;
+    let x0 = 0;
+    while (x0 < w) {
+      // One run: pixels of one phase, so of one component (same-phase row neighbours always
+      // join); its provisional labels, whatever they are, become the domain id.
+      const v = <i32>load<u8>(pr + <usize>x0);
+      const x1 = runEnd(pr, x0 + 1, w, i8x16.splat(<i8>v)) - 1;
+      const c = ldi(PA, labelAt(row + x0));
       const d = periodic ? ldi(C_FIN, c) : c;
-      const vd = i32x4.splat(d);
-      const x0 = x;
-      setLabel(row + x, d);
-      x++;
-      while (x < w) {
-        const lq = labelAt(row + x);
-        if (lq != lp) {
-          if (ldi(PA, lq) != c) break;
-          lp = lq;
-        }
-        const at = LB + (<usize>(row + x) << 2);
-        if (x + 4 <= w && v128.all_true<i32>(i32x4.eq(v128.load(at), i32x4.splat(lp)))) {
-          v128.store(at, vd);
-          x += 4;
-        } else {
-          store<i32>(at, d);
-          x++;
-        }
-      }
-      addRun(d, c, x0, x - 1, y, periodic);
+      fillRunExact(row + x0, row + x1, d);
+      addRun(d, c, v, x0, x1, y, periodic);
+      x0 = x1 + 1;
     }
   }
 }
@@ -176,72 +172,123 @@ export function measureRuns(K: i32, periodic: bool): void {
   sti(col, d, ldi(col, d) + by);
 }
 
-/** The quad pass over final labels; see the header. */
+// The quad pass accumulates four numbers per domain side by side, [4 x Euler, N90, N45, N135]
+// (16 bytes at QACC + 16 d), so that one corner of a quad is one SIMD add; they are copied into
+// their columns at the end. QTAB holds those adds per quad bin (0..17, as HIST) and corner
+// (a, b, c, d): 18 x 4 x 16 bytes.
+let QACC: usize = 0;
+let LASTK: i32 = 0;
+const QTAB: usize = memory.data(18 * 64, 16);
+const LANES: usize = memory.data(16, 16);
+
+function fillQuadTable(): void {
+  for (let e = 0; e < 18; e++) {
+    const code = e == 16 ? 6 : e == 17 ? 9 : e;
+    const p = [code & 1, (code >> 1) & 1, (code >> 2) & 1, (code >> 3) & 1]; // a, b, c, d
+    const eu = [0, 0, 0, 0], n90 = [0, 0, 0, 0], n45 = [0, 0, 0, 0], n135 = [0, 0, 0, 0];
+    if (p[0] != p[2]) { n90[0] = 1; n90[2] = 1; }
+    if (p[1] != p[2]) { n45[1] = 1; n45[2] = 1; }
+    if (p[0] != p[3]) { n135[0] = 1; n135[3] = 1; }
+    const n = p[0] + p[1] + p[2] + p[3];
+    if (code == 6 || code == 9) {
+      // Diagonal quad: the joined pair is one domain (-2), each pixel of the other +1.
+      const upJoins = e < 16;
+      const upFirst = code == 9; // up pair is (a, d) for code 9, (b, c) for code 6
+      const u0 = upFirst ? 0 : 1, u1 = upFirst ? 3 : 2;
+      const d0 = upFirst ? 1 : 0, d1 = upFirst ? 2 : 3;
+      if (upJoins) { eu[u0] = -2; eu[d0] = 1; eu[d1] = 1; }
+      else { eu[d0] = -2; eu[u0] = 1; eu[u1] = 1; }
+    } else if (n == 1 || n == 3) {
+      // One pixel differs from the other three: +1 to its domain, -1 to theirs (once).
+      const odd = n == 1 ? code : 15 ^ code;
+      const s = odd == 1 ? 0 : odd == 2 ? 1 : odd == 4 ? 2 : 3;
+      eu[s] = 1;
+      eu[s == 0 ? 1 : 0] = -1;
+    }
+    for (let k = 0; k < 4; k++) {
+      const at = QTAB + <usize>(e * 64 + k * 16);
+      store<i32>(at, eu[k]); store<i32>(at, n90[k], 4);
+      store<i32>(at, n45[k], 8); store<i32>(at, n135[k], 12);
+    }
+  }
+}
+fillQuadTable();
+
+/** Where the quad pass keeps its per-domain numbers: 16 bytes per domain id 0..K. */
+export function bindQuadAccumulators(acc: usize): void {
+  QACC = acc;
+}
+
+@inline function addQuadCorner(l: i32, delta: v128): void {
+  const p = QACC + (<usize>l << 4);
+  v128.store(p, i32x4.add(v128.load(p), delta));
+}
+
+/** A non-uniform quad with corners at pixels ia, ib (top) and ic, id (bottom). */
+@inline function mixedQuad(code: i32, q: i32, ia: i32, ib: i32, ic: i32, id: i32): void {
+  let e = code;
+  if (code == 6 || code == 9) {
+    let upJoins = RULE == 0;
+    if (RULE == 2) upJoins = load<u8>(QM + <usize>q) == 1;
+    if (!upJoins) e = code == 6 ? 16 : 17;
+  }
+  const t = QTAB + (<usize>e << 6);
+  addQuadCorner(labelAt(ia), v128.load(t));
+  addQuadCorner(labelAt(ib), v128.load(t, 16));
+  addQuadCorner(labelAt(ic), v128.load(t, 32));
+  addQuadCorner(labelAt(id), v128.load(t, 48));
+  bump(HIST, e, 1);
+}
+
+/** The quad pass over final labels; see the header. Row changes (N0) come from measureRuns. */
 export function measureQuads(): void {
   const w = W, h = H;
   for (let k = 0; k < 18; k++) sti(HIST, k, 0);
   for (let k = 0; k < 5; k++) sti(BORDER, k, 0);
+  memory.fill(QACC, 0, <usize>(LASTK + 1) << 4);
   const qh = PY ? h : h - 1;
   const qw = PX ? w : w - 1;
   let down = 0, up = 0; // uniform quads (codes 0 and 15), the bulk of any frame
+  const zero = i8x16.splat(0), full = i8x16.splat(15);
   for (let y = 0; y < qh; y++) {
     const r0 = y * w;
     const r1 = (y + 1 == h ? 0 : y + 1) * w;
-    let uniform = true; // whether the previous quad was uniform
-    for (let x = 0; x < qw; x++) {
-      // Inside uniform stretches take eight quads at once: pixels x..x+8 of both rows are equal
-      // when the 8-byte words at x and x + 1 of both rows are one and the same word of 0s or 1s.
-      if (uniform && x + 9 <= w) {
-        const p0 = PH + <usize>(r0 + x), p1 = PH + <usize>(r1 + x);
-        const word = load<u64>(p0);
-        if ((word == 0 || word == 0x0101010101010101) && word == load<u64>(p0, 1) &&
-          word == load<u64>(p1) && word == load<u64>(p1, 1)) {
-          if (word == 0) down += 8; else up += 8;
-          x += 7;
-          continue;
-        }
-      }
+    const p0 = PH + <usize>r0, p1 = PH + <usize>r1;
+    let x = 0;
+    // Sixteen quads at a time: code = a | b << 1 | c << 2 | d << 3 per byte lane; uniform
+    // lanes are only counted, the others are taken one by one from the lane mask.
+    for (; x + 16 < w; x += 16) {
+      const o = <usize>x;
+      const code = v128.or(
+        v128.or(v128.load(p0 + o), i8x16.shl(v128.load(p0 + o, 1), 1)),
+        v128.or(i8x16.shl(v128.load(p1 + o), 2), i8x16.shl(v128.load(p1 + o, 1), 3)));
+      const m0 = i8x16.bitmask(i8x16.eq(code, zero));
+      const m15 = i8x16.bitmask(i8x16.eq(code, full));
+      down += <i32>popcnt(m0);
+      up += <i32>popcnt(m15);
+      let mixed = 0xffff ^ (m0 | m15);
+      if (mixed == 0) continue;
+      v128.store(LANES, code);
+      do {
+        const j = <i32>ctz(mixed);
+        mixed &= mixed - 1;
+        const q = r0 + x + j;
+        mixedQuad(<i32>load<u8>(LANES + <usize>j), q, q, q + 1, r1 + x + j, r1 + x + j + 1);
+      } while (mixed != 0);
+    }
+    for (; x < qw; x++) {
       const x1 = x + 1 == w ? 0 : x + 1;
-      const pa = phaseAt(r0 + x), pb = phaseAt(r0 + x1);
-      const pc = phaseAt(r1 + x), pd = phaseAt(r1 + x1);
-      let code = pa | (pb << 1) | (pc << 2) | (pd << 3);
-      uniform = code == 0 || code == 15;
+      const code = phaseAt(r0 + x) | (phaseAt(r0 + x1) << 1) |
+        (phaseAt(r1 + x) << 2) | (phaseAt(r1 + x1) << 3);
       if (code == 0) { down++; continue; }
       if (code == 15) { up++; continue; }
-      const la = labelAt(r0 + x), lb = labelAt(r0 + x1);
-      const lc = labelAt(r1 + x), ld = labelAt(r1 + x1);
-      if (pa != pb) { bump(D_N0, la, 1); bump(D_N0, lb, 1); }
-      if (pa != pc) { bump(D_N90, la, 1); bump(D_N90, lc, 1); }
-      if (pa != pd) { bump(D_N135, la, 1); bump(D_N135, ld, 1); }
-      if (pb != pc) { bump(D_N45, lb, 1); bump(D_N45, lc, 1); }
-      if (code == 6 || code == 9) {
-        // Diagonal quad: the joined pair is one domain (-2), each pixel of the other +1.
-        let upJoins = RULE == 0;
-        if (RULE == 2) upJoins = load<u8>(QM + <usize>(r0 + x)) == 1;
-        const upFirst = code == 9; // up pair is (a, d) for code 9, (b, c) for code 6
-        const u0 = upFirst ? la : lb, u1 = upFirst ? ld : lc;
-        const d0 = upFirst ? lb : la, d1 = upFirst ? lc : ld;
-        if (upJoins) {
-          bump(D_EULER4, u0, -2); bump(D_EULER4, d0, 1); bump(D_EULER4, d1, 1);
-          bump(HIST, code, 1);
-        } else {
-          bump(D_EULER4, d0, -2); bump(D_EULER4, u0, 1); bump(D_EULER4, u1, 1);
-          bump(HIST, code == 6 ? 16 : 17, 1);
-        }
-        continue;
-      }
-      bump(HIST, code, 1);
-      const n = popcnt(code);
-      if (n == 2) continue; // an adjacent pair: no contribution
-      // One pixel differs from the other three: +1 to its domain, -1 to theirs.
-      const odd = n == 1 ? code : 15 ^ code; // bit of the odd pixel
-      let ls = la, lm = lb;
-      if (odd == 2) { ls = lb; lm = la; }
-      else if (odd == 4) { ls = lc; lm = la; }
-      else if (odd == 8) { ls = ld; lm = la; }
-      bump(D_EULER4, ls, 1);
-      bump(D_EULER4, lm, -1);
+      mixedQuad(code, r0 + x, r0 + x, r0 + x1, r1 + x, r1 + x1);
     }
+  }
+  for (let d = 0; d <= LASTK; d++) {
+    const p = QACC + (<usize>d << 4);
+    sti(D_EULER4, d, load<i32>(p)); sti(D_N90, d, load<i32>(p, 4));
+    sti(D_N45, d, load<i32>(p, 8)); sti(D_N135, d, load<i32>(p, 12));
   }
   sti(HIST, 0, down);
   sti(HIST, 15, up);
@@ -255,7 +302,7 @@ export function measureQuads(): void {
         if (phaseAt(i) != phaseAt(j)) {
           bump(D_EULER4, labelAt(i), 1); bump(D_EULER4, labelAt(j), 1);
           bump(BORDER, 0, 1);
-          if (side == 1) { bump(BORDER, 3, 1); bump(D_N0, labelAt(i), 1); bump(D_N0, labelAt(j), 1); }
+          if (side == 1) bump(BORDER, 3, 1);
         }
       }
     }

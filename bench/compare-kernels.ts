@@ -15,7 +15,7 @@ function driver(path: string, phase: Uint8Array, n: number): Driver {
   const alloc = (bytes: number) => k.heapAlloc(bytes) as number;
   const ph = alloc(px), lb = alloc(4 * px), pa = alloc(4 * (px + 1));
   const table = alloc(128), stats = alloc(128), trig = alloc(8 * (2 * (n + 1) + 2 * n));
-  const cols = alloc(cap * (17 * 4 + 9 * 8));
+  const cols = alloc(cap * (17 * 4 + 9 * 8 + 16));
   const t = new Uint32Array(k.memory.buffer, table, 32);
   let p = cols, s = 0;
   for (let c = 0; c < 12; c++) { t[s++] = p; p += 4 * cap; }
@@ -27,6 +27,7 @@ function driver(path: string, phase: Uint8Array, n: number): Driver {
   k.setGeometry(n, n, 0, 0, 0);
   k.setBuffers(ph, lb, pa, 0);
   k.bindDomains(table);
+  if (k.bindQuadAccumulators) k.bindQuadAccumulators(p); // builds with the side-by-side quad sums
   k.fillTrigTables();
   let K = 0;
   const pass = {

@@ -15,7 +15,7 @@ const SIZES = [256, 512, 1024, 2048];
 const PATTERNS: Pattern[] = ["maze", "bubble", "noise"];
 /** The plain-TS reference is skipped above this size (seconds per frame at 2048). */
 const REFERENCE_MAX = 1024;
-const OPTIONS: FrameOptions = { threshold: 0.5, connectivity: 8, boundary: "open" };
+const OPTIONS: FrameOptions = { threshold: 0.5, connectivity: 8, boundary: "open", spectrum: "off" };
 const mb = (bytes: number) => `${(bytes / 2 ** 20).toFixed(1)} MB`;
 
 function median(sample: number[]): number {

@@ -34,7 +34,7 @@ cost("quads (measureQuads)", () => { ws.measureQuads(); });
 cost("domain table (JS)", () => { buildDomainTable(ws, 1); });
 const an = createAnalyzer(n, n);
 const frame = { width: n, height: n, data: phase };
-cost("whole FrameAnalyzer.analyze", () => { an.analyze(frame, { threshold: 0.5 }); });
+cost("whole FrameAnalyzer.analyze", () => { an.analyze(frame, { threshold: 0.5, spectrum: "off" }); });
 const { cv } = await loadOpenCv();
 const up = new cv.Mat(n, n, cv.CV_8UC1);
 up.data.set(phase);

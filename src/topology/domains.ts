@@ -42,6 +42,18 @@ export function croftonLength(n0: number, n90: number, n45: number, n135: number
   return CROFTON * (n0 + n90 + (n45 + n135) / Math.SQRT2);
 }
 
+/** Circular mean position in [0, size) from sums of cos and sin of 2 pi v / size. */
+function wrapMean(c: number, sn: number, size: number): number {
+  let a = Math.atan2(sn, c);
+  if (a < 0) a += 2 * Math.PI;
+  const v = (a * size) / (2 * Math.PI);
+  return v >= size ? 0 : v;
+}
+
+function mod(v: number, size: number): number {
+  return ((v % size) + size) % size;
+}
+
 export function buildDomainTable(ws: LabelingWorkspace, pixelSize: number): DomainTable {
   const K = ws.domainCount;
   const w = ws.width, h = ws.height;
@@ -54,50 +66,40 @@ export function buildDomainTable(ws: LabelingWorkspace, pixelSize: number): Doma
   const cxc = ws.f64Column("cxc"), cxs = ws.f64Column("cxs");
   const cyc = ws.f64Column("cyc"), cys = ws.f64Column("cys");
   const s = pixelSize, s2 = s * s;
-  const t: DomainTable = {
-    count: K,
-    phase: new Uint8Array(K), area: new Float64Array(K), wallLength: new Float64Array(K),
-    euler: new Int32Array(K), holes: new Float64Array(K),
-    centroidX: new Float64Array(K), centroidY: new Float64Array(K),
-    bboxX: new Float64Array(K), bboxY: new Float64Array(K),
-    bboxWidth: new Float64Array(K), bboxHeight: new Float64Array(K),
-    equivalentDiameter: new Float64Array(K), elongation: new Float64Array(K),
-    orientation: new Float64Array(K),
-    wrapsX: new Uint8Array(K), wrapsY: new Uint8Array(K), edge: new Uint8Array(K),
-  };
-  const wrapMean = (c: number, sn: number, size: number) => {
-    let a = Math.atan2(sn, c);
-    if (a < 0) a += 2 * Math.PI;
-    const v = (a * size) / (2 * Math.PI);
-    return v >= size ? 0 : v;
-  };
-  const mod = (v: number, size: number) => ((v % size) + size) % size;
+  // Columns as locals and the helpers at module level: one pass of plain typed-array stores.
+  const tPhase = new Uint8Array(K), tArea = new Float64Array(K), tWall = new Float64Array(K);
+  const tEuler = new Int32Array(K), tHoles = new Float64Array(K);
+  const tCx = new Float64Array(K), tCy = new Float64Array(K);
+  const tBx = new Float64Array(K), tBy = new Float64Array(K);
+  const tBw = new Float64Array(K), tBh = new Float64Array(K);
+  const tDiam = new Float64Array(K), tElong = new Float64Array(K), tOrient = new Float64Array(K);
+  const tWx = new Uint8Array(K), tWy = new Uint8Array(K), tEdge = new Uint8Array(K);
   for (let d = 1; d <= K; d++) {
     const i = d - 1;
     const a = area[d]!;
     const f = flags[d]!;
     const wx = (f & 1) !== 0, wy = (f & 2) !== 0;
-    t.phase[i] = phase[d]!;
-    t.area[i] = a * s2;
-    t.wallLength[i] = croftonLength(n0[d]!, n90[d]!, n45[d]!, n135[d]!) * s;
+    tPhase[i] = phase[d]!;
+    tArea[i] = a * s2;
+    tWall[i] = croftonLength(n0[d]!, n90[d]!, n45[d]!, n135[d]!) * s;
     const e4 = euler4[d]!;
-    t.euler[i] = e4 / 4;
-    t.holes[i] = wx || wy ? NaN : 1 - e4 / 4;
-    t.wrapsX[i] = wx ? 1 : 0;
-    t.wrapsY[i] = wy ? 1 : 0;
-    t.edge[i] = (f & 4) !== 0 ? 1 : 0;
+    tEuler[i] = e4 / 4;
+    tHoles[i] = wx || wy ? NaN : 1 - e4 / 4;
+    tWx[i] = f & 1;
+    tWy[i] = (f >> 1) & 1;
+    tEdge[i] = (f >> 2) & 1;
     const mx = sx[d]! / a, my = sy[d]! / a;
     // Pixel centres sit at integer coordinates; report centroids in the same convention.
-    t.centroidX[i] = (wx ? wrapMean(cxc[d]!, cxs[d]!, w) : mod(mx, w)) * s;
-    t.centroidY[i] = (wy ? wrapMean(cyc[d]!, cys[d]!, h) : mod(my, h)) * s;
-    t.bboxX[i] = (wx ? 0 : mod(minX[d]!, w)) * s;
-    t.bboxWidth[i] = (wx ? w : maxX[d]! - minX[d]! + 1) * s;
-    t.bboxY[i] = (wy ? 0 : mod(minY[d]!, h)) * s;
-    t.bboxHeight[i] = (wy ? h : maxY[d]! - minY[d]! + 1) * s;
-    t.equivalentDiameter[i] = Math.sqrt((4 * a) / Math.PI) * s;
+    tCx[i] = (wx ? wrapMean(cxc[d]!, cxs[d]!, w) : mod(mx, w)) * s;
+    tCy[i] = (wy ? wrapMean(cyc[d]!, cys[d]!, h) : mod(my, h)) * s;
+    tBx[i] = (wx ? 0 : mod(minX[d]!, w)) * s;
+    tBw[i] = (wx ? w : maxX[d]! - minX[d]! + 1) * s;
+    tBy[i] = (wy ? 0 : mod(minY[d]!, h)) * s;
+    tBh[i] = (wy ? h : maxY[d]! - minY[d]! + 1) * s;
+    tDiam[i] = Math.sqrt((4 * a) / Math.PI) * s;
     if (wx || wy) {
-      t.elongation[i] = NaN;
-      t.orientation[i] = NaN;
+      tElong[i] = NaN;
+      tOrient[i] = NaN;
     } else {
       // Central second moments of the pixel set, each pixel a unit square (adds 1/12).
       const uxx = sxx[d]! / a - mx * mx + 1 / 12;
@@ -106,11 +108,17 @@ export function buildDomainTable(ws: LabelingWorkspace, pixelSize: number): Doma
       const half = (uxx + uyy) / 2;
       const root = Math.sqrt(((uxx - uyy) / 2) ** 2 + uxy * uxy);
       const major = half + root, minor = Math.max(half - root, 1e-12);
-      t.elongation[i] = Math.sqrt(major / minor);
+      tElong[i] = Math.sqrt(major / minor);
       let deg = (0.5 * Math.atan2(-2 * uxy, uxx - uyy) * 180) / Math.PI;
       if (deg <= -90) deg += 180;
-      t.orientation[i] = Math.abs(deg) < 1e-9 ? 0 : deg;
+      tOrient[i] = Math.abs(deg) < 1e-9 ? 0 : deg;
     }
   }
+  const t: DomainTable = {
+    count: K, phase: tPhase, area: tArea, wallLength: tWall, euler: tEuler, holes: tHoles,
+    centroidX: tCx, centroidY: tCy, bboxX: tBx, bboxY: tBy, bboxWidth: tBw, bboxHeight: tBh,
+    equivalentDiameter: tDiam, elongation: tElong, orientation: tOrient,
+    wrapsX: tWx, wrapsY: tWy, edge: tEdge,
+  };
   return t;
 }

@@ -22,6 +22,7 @@ export interface KernelExports {
   fillTrigTables(): void;
   measureRuns(K: number, periodic: number): void;
   measureQuads(): void;
+  bindQuadAccumulators(acc: number): void;
   fft2Bytes(w: number, h: number): number;
   fft2InitScratchBytes(w: number, h: number): number;
   fft2Init(plan: number, w: number, h: number, tmp: number): number;

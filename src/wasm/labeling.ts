@@ -15,7 +15,10 @@ const I32_COLUMNS = [
 ] as const;
 const F64_COLUMNS = ["sx", "sy", "sxx", "syy", "sxy", "cxc", "cxs", "cyc", "cys"] as const;
 const COMPONENT_COLUMNS = ["fin", "csx", "csy", "cwf", "cq"] as const;
-const BYTES_PER_DOMAIN = (I32_COLUMNS.length + COMPONENT_COLUMNS.length) * 4 + F64_COLUMNS.length * 8;
+/** The quad pass's per-domain accumulators: four i32 side by side (see assembly/measure.ts). */
+const QUAD_ACCUMULATOR_BYTES = 16;
+const BYTES_PER_DOMAIN = (I32_COLUMNS.length + COMPONENT_COLUMNS.length) * 4 + F64_COLUMNS.length * 8 +
+  QUAD_ACCUMULATOR_BYTES;
 
 export type DomainI32Column = (typeof I32_COLUMNS)[number];
 export type DomainF64Column = (typeof F64_COLUMNS)[number];
@@ -152,6 +155,7 @@ export class LabelingWorkspace {
     for (const name of I32_COLUMNS) { this.columnPtr.set(name, p); table[slot++] = p; p += 4 * cap; }
     for (const name of F64_COLUMNS) { this.columnPtr.set(name, p); table[slot++] = p; p += 8 * cap; }
     for (const name of COMPONENT_COLUMNS) { this.columnPtr.set(name, p); table[slot++] = p; p += 4 * cap; }
+    this.k.bindQuadAccumulators(p);
     const w = this.width, h = this.height;
     table[slot++] = this.trigPtr;
     table[slot++] = this.trigPtr + 8 * (w + 1);
