@@ -60,7 +60,7 @@ export class LabelingWorkspace {
     this.pixels = width * height;
     this.k = kernels();
     const n = this.pixels;
-    this.phasePtr = wasmAlloc(n);
+    this.phasePtr = wasmAlloc(n + 16); // vector loads may read up to 15 bytes past the map
     this.labelPtr = wasmAlloc(4 * n);
     this.parentPtr = wasmAlloc(4 * (n + 1));
     this.tablePtr = wasmAlloc(32 * 4);
