@@ -17,6 +17,6 @@ export default defineConfig({
   platform: "neutral",
   splitting: true,
   treeshake: true,
-  noExternal: ["upng-js", "pako", "fft.js"],
+  noExternal: ["upng-js", "pako", "fft.js", "fflate", "utif2"],
   external: [/^node:/],
 });
