@@ -260,11 +260,26 @@ async function refreshSummary(): Promise<void> {
   const frames = t.replies.map((r) => r.index);
   const x = t.field ? t.field.values : frames;
   const options = state.run?.options ?? {};
-  const width = Math.max(300, Math.min(440, Math.floor((el.plots.clientWidth - 20) / 2)));
+  const width = plotWidth();
+  plotsDrawnAt = width;
   state.plotDefs = plotDefs({ x, frames, rows, fieldUnit: t.field ? state.fields!.unit || "field" : "", unit: options.unit ?? "px" }, width);
   state.plots = await renderPlots(el.plots, state.plotDefs, frames, (f) => { setView(f); el.frameCanvas.focus(); }, state.plots);
+  el.plots.dataset.width = String(width);
   renderLoop(t, rows);
 }
+
+let plotsDrawnAt = 0;
+
+/** Two plots a row on a laptop, three or more on a wide monitor. */
+function plotWidth(): number {
+  const room = el.plots.clientWidth;
+  const columns = Math.max(2, Math.floor(room / 420));
+  return Math.max(280, Math.min(520, Math.floor(room / columns) - 70));
+}
+
+new ResizeObserver(() => {
+  if (state.plotDefs.length && Math.abs(plotWidth() - plotsDrawnAt) > 24 && document.body.dataset.state === "done") void refreshSummary();
+}).observe(el.plots);
 
 function renderLoop(t: Table, rows: Array<Map<string, Cell>>): void {
   state.loop = undefined;
