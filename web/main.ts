@@ -264,7 +264,7 @@ async function refreshSummary(): Promise<void> {
   plotsDrawnAt = width;
   state.plotDefs = plotDefs({ x, frames, rows, fieldUnit: t.field ? state.fields!.unit || "field" : "", unit: options.unit ?? "px" }, width);
   state.plots = await renderPlots(el.plots, state.plotDefs, frames, (f) => { setView(f); el.frameCanvas.focus(); }, state.plots);
-  el.plots.dataset.width = String(width);
+  el.plots.dataset.drawn = "yes";
   renderLoop(t, rows);
 }
 
@@ -273,12 +273,16 @@ let plotsDrawnAt = 0;
 /** Two plots a row on a laptop, three or more on a wide monitor. */
 function plotWidth(): number {
   const room = el.plots.clientWidth;
-  const columns = Math.max(2, Math.floor(room / 420));
+  const columns = Math.max(2, Math.floor(room / 400));
   return Math.max(280, Math.min(520, Math.floor(room / columns) - 70));
 }
 
+let redraw: ReturnType<typeof setTimeout> | undefined;
 new ResizeObserver(() => {
-  if (state.plotDefs.length && Math.abs(plotWidth() - plotsDrawnAt) > 24 && document.body.dataset.state === "done") void refreshSummary();
+  if (!state.plotDefs.length || plotWidth() === plotsDrawnAt || document.body.dataset.state !== "done") return;
+  el.plots.dataset.drawn = "stale";
+  clearTimeout(redraw);
+  redraw = setTimeout(() => void refreshSummary(), 150);
 }).observe(el.plots);
 
 function renderLoop(t: Table, rows: Array<Map<string, Cell>>): void {

@@ -153,10 +153,10 @@ describe.skipIf(!run)("the browser page", () => {
     expect(await page.textContent("#frame-where")).toBe("sweep_4.png");
 
     await page.screenshot({ path: join(shots, "laptop-1366x768.png") });
-    const narrow = await page.getAttribute("#plots", "data-width");
     await page.setViewportSize({ width: 2560, height: 1440 });
-    // The plots are drawn again for the wider panel.
-    await page.waitForFunction((w) => { const p = document.getElementById("plots")!; return p.dataset.width !== w && p.querySelectorAll("svg").length === 6; }, narrow);
+    // After layout (two frames), the plots are drawn again for the wider panel when it changed.
+    await page.evaluate(() => new Promise((ok) => requestAnimationFrame(() => requestAnimationFrame(ok))));
+    await page.waitForFunction(() => document.getElementById("plots")!.dataset.drawn === "yes");
     await page.screenshot({ path: join(shots, "wide-2560x1440.png") });
     await page.setViewportSize({ width: 1366, height: 768 });
     console.log(`screenshots in ${shots}`);
