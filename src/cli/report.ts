@@ -242,12 +242,13 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
     const figures: string[] = [];
     const s = branchSeries(t, field);
     const fieldByBranch = branchColumn(s.split, field);
+    const branchColors = Object.fromEntries(s.labels.map((l) => [l, l.startsWith("ascending") ? BRANCH_COLORS.ascending : BRANCH_COLORS.descending]));
     if (has(t, "magnetization")) {
       const m = s.column("magnetization");
       figures.push(await svg(fieldSeriesSpec({
         fieldUnit: unit, yTitle: "magnetization m", title: "Magnetization against field",
         series: s.labels.map((label, k) => ({ name: label, group: label, field: fieldByBranch[k]!, values: m[k]! })),
-        colors: Object.fromEntries(s.labels.map((l) => [l, l.startsWith("ascending") ? BRANCH_COLORS.ascending : BRANCH_COLORS.descending])),
+        colors: branchColors,
       })));
     }
     if (has(t, "up_domains", "down_domains", "up_euler", "down_euler")) {
@@ -260,6 +261,7 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
         fieldUnit: unit, yTitle: `wall length per area (${wall.replace(/^wall_length_density_/, "").replace(/_/g, " ")})`,
         title: "Wall length density against field",
         series: s.labels.map((label, k) => ({ name: label, group: label, field: fieldByBranch[k]!, values: w[k]! })),
+        colors: branchColors,
       })));
     }
     const rowBranches = s.split.branches.map((b, k) => ({

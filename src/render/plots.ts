@@ -47,17 +47,22 @@ function fieldTitle(fieldUnit: string): string {
   return fieldUnit ? `applied field H (${fieldUnit})` : "frame";
 }
 
-/** Long-format rows of several series; `order` keeps each series in sweep order. */
+/**
+ * Long-format rows of several series; `order` keeps each series in sweep order, and `part`
+ * numbers the runs of finite values so that a line breaks where a value is missing.
+ */
 function seriesRows(series: FieldSeries[]): Array<Record<string, number | string>> {
   const rows: Array<Record<string, number | string>> = [];
-  for (const s of series) {
+  series.forEach((s, index) => {
     const n = Math.min(s.field.length, s.values.length);
+    let part = 0, gap = false;
     for (let k = 0; k < n; k++) {
       const h = s.field[k]!, v = s.values[k]!;
-      if (!Number.isFinite(h) || !Number.isFinite(v)) continue;
-      rows.push({ field: h, value: v, series: s.name, group: s.group ?? "", order: k });
+      if (!Number.isFinite(h) || !Number.isFinite(v)) { gap = true; continue; }
+      if (gap) { part++; gap = false; }
+      rows.push({ field: h, value: v, series: s.name, group: s.group ?? "", order: k, part: `${index}.${part}` });
     }
-  }
+  });
   return rows;
 }
 
@@ -132,15 +137,28 @@ export function fieldSeriesSpec(input: FieldSeriesInput): PlotSpec {
   if (input.colors && names.every((n) => input.colors![n])) {
     color.scale = { domain: names, range: names.map((n) => input.colors![n]) };
   }
+  // The x axis spans every frame with a field, also those without a value (a panel of a
+  // quantity that exists only on part of the sweep keeps the sweep's field range).
+  let lo = Infinity, hi = -Infinity;
+  for (const s of input.series) {
+    for (let k = 0; k < s.field.length; k++) {
+      const h = s.field[k]!;
+      if (Number.isFinite(h)) { lo = Math.min(lo, h); hi = Math.max(hi, h); }
+    }
+  }
   const encoding: PlotSpec = {
-    x: { field: "field", type: "quantitative", title: fieldTitle(input.fieldUnit) },
+    x: { field: "field", type: "quantitative", title: fieldTitle(input.fieldUnit), ...(lo < hi ? { scale: { domain: [lo, hi] } } : {}) },
     y: { field: "value", type: "quantitative", title: input.yTitle },
-    color, order: { field: "order" }, detail: { field: "group" },
+    color, order: { field: "order" }, detail: { field: "part" },
   };
   // Dashes only when they say something the colours do not (groups other than the series).
   const sameAsSeries = groups.length === names.length && input.series.every((x) => (x.group ?? "") === x.name);
   if (groups.length > 1 && !sameAsSeries) {
-    encoding.strokeDash = { field: "group", type: "nominal", title: input.groupTitle ?? "branch", scale: { domain: groups, range: groups.map((_, k) => (k === 0 ? [1, 0] : [5, 3])) } };
+    encoding.strokeDash = {
+      field: "group", type: "nominal", title: input.groupTitle ?? "branch",
+      scale: { domain: groups, range: groups.map((_, k) => (k === 0 ? [1, 0] : [5, 3])) },
+      legend: { symbolType: "stroke", symbolStrokeWidth: 1.5, encode: { symbols: { update: { stroke: { value: "#475467" }, fill: { value: "transparent" } } } } },
+    };
   }
   return {
     $schema: SCHEMA, title: input.title ?? input.yTitle, width, height, config: PLOT_CONFIG,
@@ -182,7 +200,7 @@ export function stackedPanelsSpec(input: { fieldUnit: string; title: string; pan
       return s;
     }),
     // One legend when every panel has the same series, else one per panel.
-    resolve: { scale: { color: same((p) => p.series.map((x) => x.name)), strokeDash: same((p) => p.series.map((x) => x.group ?? "")) } },
+    resolve: { scale: { x: "shared", color: same((p) => p.series.map((x) => x.name)), strokeDash: same((p) => p.series.map((x) => x.group ?? "")) } },
   };
   function same(names: (p: FieldPanel) => string[]): "shared" | "independent" {
     const key = (p: FieldPanel) => [...new Set(names(p))].sort().join("\u0000");
@@ -334,7 +352,10 @@ export function spectrumProfileSpec(input: { lengthUnit: string; profiles: Spect
     }
   }
   const names = input.profiles.map((p) => p.name);
-  const color = { field: "series", type: "nominal", title: null, scale: { domain: names, range: names.map((_, k) => PROFILE_COLORS[k % PROFILE_COLORS.length]) } };
+  const color = {
+    field: "series", type: "nominal", title: null, legend: { labelLimit: 320 },
+    scale: { domain: names, range: names.map((_, k) => PROFILE_COLORS[k % PROFILE_COLORS.length]) },
+  };
   const unit = input.lengthUnit || "px";
   const x = { field: "q", type: "quantitative", title: `q (cycles per ${unit})`, scale: { zero: true, nice: false, ...(input.qMax !== undefined ? { domain: [0, input.qMax] } : {}) } };
   const layers: PlotSpec[] = [{
