@@ -20,7 +20,8 @@ import type { Frame } from "../types";
 import { VERSION } from "../version";
 import { UsageError } from "./usage";
 import { runDemoLoop } from "./demo-loop";
-import { runLoop, runForc, LOOP_HELP, FORC_HELP } from "./loop";
+import { DemoSpectra } from "./demo-spectra";
+import { runLoop, runForc, commitAll, LOOP_HELP, FORC_HELP } from "./loop";
 import { buildReport, runReport, REPORT_HELP } from "./report";
 import { fmt } from "./loop-tables";
 
@@ -69,7 +70,10 @@ Options:
   -h, --help            this help
 
 Writes DIR/frames/*.png, DIR/fields.csv (field per frame), DIR/frames.csv (one row per frame),
-DIR/domains.csv (one row per domain and frame) and DIR/run.json (scenario and options).
+DIR/domains.csv (one row per domain and frame), DIR/run.json (scenario and options), overlays of
+every few frames (DIR/overlays/*.png), and the radial spectrum S(q) of the maze nearest zero
+field and of a bubble frame (DIR/spectra.csv: frame, field, q, S) with their log-scaled power
+spectra, ring marked (DIR/spectra/frame-NNNN.png).
 
 Then a second, hysteretic synthetic sweep (an invented lattice of square hysterons on a
 Gaussian random field, 128 x 128 px): a major loop and first-order reversal curves, analyzed
@@ -237,6 +241,7 @@ async function runDemo(argv: string[]): Promise<number> {
   };
   const fieldsCsv = new AtomicWriter(join(out, "fields.csv"));
   const analyzer = createAnalyzer(sweep.width, sweep.height);
+  const spectra = new DemoSpectra(sweep.width, sweep.height, sweep.fields, fieldCol, sweep.unit);
   const progress = new Progress(sweep.fields.length, "demo", process.stderr, !quiet);
   const started = performance.now();
   let analysisMs = 0;
@@ -252,6 +257,7 @@ async function runDemo(argv: string[]): Promise<number> {
       const t0 = performance.now();
       const r = writeRow(tables, [["frame", k], [fieldCol, sweep.fields[k]!]], analyzer, frame, options, `demo frame ${k}`);
       analysisMs += performance.now() - t0;
+      spectra.keep(k, sweep.fields[k]!, analyzer.phase().slice(), r.spectrum);
       picks.push({ field: sweep.fields[k]!, m: r.magnetization, up: r.up.domains, down: r.down.domains, eu: r.up.euler, ed: r.down.euler });
       const every = Math.max(1, Math.round((sweep.fields.length - 1) / 8));
       if (r.skeleton && (k % every === 0 || k === sweep.fields.length - 1)) {
@@ -264,11 +270,13 @@ async function runDemo(argv: string[]): Promise<number> {
     tables.frames!.commit();
     tables.domains!.commit();
     fieldsCsv.commit();
+    commitAll(spectra.files(out));
   } catch (err) {
     tables.frames!.abort(); tables.domains!.abort(); fieldsCsv.abort();
     throw err;
   } finally {
     analyzer.dispose();
+    spectra.dispose();
   }
   writeFileAtomic(join(out, "run.json"), JSON.stringify({
     tool: "domtopo", version: VERSION, command: "demo", scenario: sweep.scenario,
@@ -291,7 +299,8 @@ async function runDemo(argv: string[]): Promise<number> {
       lines.push(`  ${p.field.toFixed(1).padStart(9)}  ${p.m.toFixed(3).padStart(13)}  ${String(p.up).padStart(10)}  ` +
         `${String(p.down).padStart(12)}  ${String(p.eu).padStart(8)}  ${String(p.ed).padStart(10)}`);
     }
-    lines.push("", `Wrote ${join(out, "frames.csv")}, domains.csv, fields.csv, run.json and frames/*.png`);
+    lines.push("", `Wrote ${join(out, "frames.csv")}, domains.csv, fields.csv, run.json, frames/*.png, overlays/*.png, ` +
+      `spectra.csv and spectra/*.png (S(q) and spectrum of frame${spectra.frames.length === 1 ? "" : "s"} ${spectra.frames.join(", ")})`);
     process.stdout.write(lines.join("\n") + "\n");
   }
   // The hysteretic sweep (major loop and reversal curves), then the report of the whole folder.

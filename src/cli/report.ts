@@ -5,8 +5,9 @@ import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
 import { basename, join, resolve } from "node:path";
 import { splitBranches, branchColumn } from "../sweep/branches";
 import {
-  branchTopologySpec, fieldSeriesSpec, forcHeatmapSpec, gridHeatmapSpec, loopPlotSpec,
-  type FieldSeries, type PlotSpec, type SpectrumPlotHook, type TopologyBranch, BRANCH_COLORS,
+  branchTopologySpec, defectDensitySpec, fieldSeriesSpec, forcHeatmapSpec, gridHeatmapSpec, kindCountsSpec,
+  loopPlotSpec, spectrumFieldSpec, spectrumProfilePlots,
+  type FieldSeries, type PlotSpec, type SpectrumPlotHook, type SpectrumPlotInput, type TopologyBranch, BRANCH_COLORS,
 } from "../render/plots";
 import { renderSvg, type VegaModules } from "../render/svg";
 import { reportHtml, type ReportSection, type ReportTable } from "../render/report-html";
@@ -21,8 +22,11 @@ export const REPORT_HELP = `Usage: domtopo report <run folder> [options]
 
 Writes one self-contained HTML file (no scripts, no links out) from a run folder made by
 'domtopo demo' or 'domtopo analyze --out': plots against field (SVG, inline), the run record and
-options, loop metrics, the FORC distribution and reversal-curve tables when DIR/loop/ exists, and
-thumbnails of DIR/overlays/*.png (or of DIR/frames/*.png when there are no overlays).
+options, loop metrics, the FORC distribution with contours and reversal-curve tables when
+DIR/loop/ exists, the radial spectrum S(q) of DIR/spectra.csv with the images DIR/spectra/*.png
+when they exist, and thumbnails of DIR/overlays/*.png (or of DIR/frames/*.png when there are no
+overlays). Domain kinds, defect densities, period, correlation length and order are plotted
+against field whenever the per-frame tables have those columns.
 
 Options:
   --out FILE            where to write [DIR/report.html]
@@ -37,7 +41,10 @@ export interface ReportOptions {
   fieldColumn?: string;
   /** @default 8 */
   thumbnails?: number;
-  /** Plug-in of the spectrum layer (S(q), period against field); no section without it. */
+  /**
+   * Builds the spectrum plots from DIR/spectra.csv (and the per-frame table).
+   * @default spectrumProfilePlots (S(q) of each kept frame, log scale)
+   */
   spectrumPlot?: SpectrumPlotHook;
 }
 
@@ -96,6 +103,80 @@ function topologyBranches(t: CsvTable, field: number[], select?: (label: string,
   const [ud, dd, ue, de] = ["up_domains", "down_domains", "up_euler", "down_euler"].map(s.column);
   return s.labels.map((label, k) => ({ label, field: f[k]!, upDomains: ud![k]!, downDomains: dd![k]!, upEuler: ue![k]!, downEuler: de![k]! }))
     .filter((b, k) => (select ? select(b.label, k) : true));
+}
+
+/** A column as numbers, NaN for empty or non-numeric cells (a frame without that value). */
+function looseColumn(t: CsvTable, name: string): number[] {
+  const k = columnIndex(t, name);
+  return t.rows.map((r) => {
+    const text = r[k]!.trim();
+    const v = text === "" ? NaN : Number(text);
+    return Number.isFinite(v) ? v : NaN;
+  });
+}
+
+/** Frames of one branch of a table, by row. */
+interface RowBranch {
+  label: string;
+  rows: number[];
+}
+
+/** Area densities per nm² are shown per µm² (values near 1 instead of 1e-6); others as written. */
+function areaDensityUnit(unit: string): { factor: number; label: string; format?: string } {
+  if (unit === "nm") return { factor: 1e6, label: "µm²" };
+  if (unit === "µm" || unit === "um") return { factor: 1, label: "µm²" };
+  return { factor: 1, label: `${unit}²`, format: ".2~e" };
+}
+
+/**
+ * Plots of the per-frame columns written with skeletons and spectra: domain kinds of each phase,
+ * ends and junctions per area, and period / correlation length / order; each only when the table
+ * has its columns.
+ */
+async function kindAndSpectrumFigures(
+  t: CsvTable, field: number[], branches: RowBranch[], fieldUnit: string, svg: (s: PlotSpec) => Promise<string>, where: string,
+): Promise<string[]> {
+  const figures: string[] = [];
+  const pick = (values: number[], b: RowBranch) => b.rows.map((r) => values[r]!);
+  const col = (name: string) => looseColumn(t, name);
+  const fieldOf = (b: RowBranch) => pick(field, b);
+  const kinds = ["bubbles", "stripes", "labyrinths"] as const;
+  if (kinds.every((k) => has(t, `up_${k}`, `down_${k}`))) {
+    const c = Object.fromEntries(kinds.flatMap((k) => [[`up_${k}`, col(`up_${k}`)], [`down_${k}`, col(`down_${k}`)]]));
+    const counts = (phase: string, b: RowBranch) => ({
+      bubbles: pick(c[`${phase}_bubbles`]!, b), stripes: pick(c[`${phase}_stripes`]!, b), labyrinths: pick(c[`${phase}_labyrinths`]!, b),
+    });
+    figures.push(await svg(kindCountsSpec({
+      fieldUnit, title: `Domain kinds ${where}`,
+      branches: branches.map((b) => ({ label: b.label, field: fieldOf(b), up: counts("up", b), down: counts("down", b) })),
+    })));
+  }
+  const ends = t.header.map((h) => /^up_ends_per_(.+)2$/.exec(h)).find((m) => m !== null);
+  const u = ends?.[1];
+  if (u !== undefined && has(t, `down_ends_per_${u}2`, `up_junctions_per_${u}2`, `down_junctions_per_${u}2`)) {
+    const d = areaDensityUnit(u);
+    const scaled = (name: string) => col(name).map((v) => v * d.factor);
+    const [ue, de, uj, dj] = [`up_ends_per_${u}2`, `down_ends_per_${u}2`, `up_junctions_per_${u}2`, `down_junctions_per_${u}2`].map(scaled);
+    figures.push(await svg(defectDensitySpec({
+      fieldUnit, areaUnit: d.label, title: `Defects ${where}`, ...(d.format ? { yFormat: d.format } : {}),
+      branches: branches.map((b) => ({ label: b.label, field: fieldOf(b), upEnds: pick(ue!, b), downEnds: pick(de!, b), upJunctions: pick(uj!, b), downJunctions: pick(dj!, b) })),
+    })));
+  }
+  const periodColumn = t.header.find((h) => /^period_(?!from_)/.test(h));
+  if (periodColumn && has(t, "order2", "order6")) {
+    const lengthUnit = periodColumn.slice("period_".length);
+    const period = col(periodColumn);
+    const corrName = `corr_length_${lengthUnit}`;
+    // Only resolved correlation lengths: an unresolved one is a bound set by the frame.
+    const resolved = has(t, "corr_length_resolved") ? col("corr_length_resolved") : undefined;
+    const corr = has(t, corrName) ? col(corrName).map((v, r) => (resolved && resolved[r] !== 1 ? NaN : v)) : period.map(() => NaN);
+    const [o2, o6] = [col("order2"), col("order6")];
+    figures.push(await svg(spectrumFieldSpec({
+      fieldUnit, lengthUnit, title: `Period, correlation length and order ${where}`,
+      branches: branches.map((b) => ({ label: b.label, field: fieldOf(b), period: pick(period, b), corrLength: pick(corr, b), order2: pick(o2!, b), order6: pick(o6!, b) })),
+    })));
+  }
+  return figures;
 }
 
 function metricsTable(rows: MetricRow[], caption: string): ReportTable {
@@ -161,12 +242,13 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
     const figures: string[] = [];
     const s = branchSeries(t, field);
     const fieldByBranch = branchColumn(s.split, field);
+    const branchColors = Object.fromEntries(s.labels.map((l) => [l, l.startsWith("ascending") ? BRANCH_COLORS.ascending : BRANCH_COLORS.descending]));
     if (has(t, "magnetization")) {
       const m = s.column("magnetization");
       figures.push(await svg(fieldSeriesSpec({
         fieldUnit: unit, yTitle: "magnetization m", title: "Magnetization against field",
         series: s.labels.map((label, k) => ({ name: label, group: label, field: fieldByBranch[k]!, values: m[k]! })),
-        colors: Object.fromEntries(s.labels.map((l) => [l, l.startsWith("ascending") ? BRANCH_COLORS.ascending : BRANCH_COLORS.descending])),
+        colors: branchColors,
       })));
     }
     if (has(t, "up_domains", "down_domains", "up_euler", "down_euler")) {
@@ -179,8 +261,13 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
         fieldUnit: unit, yTitle: `wall length per area (${wall.replace(/^wall_length_density_/, "").replace(/_/g, " ")})`,
         title: "Wall length density against field",
         series: s.labels.map((label, k) => ({ name: label, group: label, field: fieldByBranch[k]!, values: w[k]! })),
+        colors: branchColors,
       })));
     }
+    const rowBranches = s.split.branches.map((b, k) => ({
+      label: s.labels[k]!, rows: Array.from({ length: b.endFrame - b.startFrame + 1 }, (_, i) => b.startFrame + i),
+    }));
+    figures.push(...(await kindAndSpectrumFigures(t, field, rowBranches, unit, svg, "against field")));
     const tables: ReportTable[] = [];
     if (fieldColumn && has(t, "magnetization")) {
       try {
@@ -200,18 +287,8 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
   // The hysteretic sweep of loop/: major loop, reversal curves, FORC.
   if (existsSync(loopFramesPath)) sections.push(...(await loopSections(loopDir, svg)));
 
-  if (options.spectrumPlot) {
-    // Hook for the spectrum layer: it decides whether the table holds what it needs.
-    const t = existsSync(framesPath) ? readCsv(framesPath) : undefined;
-    if (t) {
-      const cols: Record<string, number[]> = {};
-      for (const h of t.header) {
-        try { cols[h] = numericColumn(t, h); } catch { /* not numeric */ }
-      }
-      const spec = options.spectrumPlot(cols, run?.fieldUnit ?? "");
-      if (spec) sections.push({ id: "spectrum", title: "Spectrum", figures: [await svg(spec)] });
-    }
-  }
+  const spectrum = await spectrumSection(dir, framesPath, run, options.spectrumPlot ?? spectrumProfilePlots, svg);
+  if (spectrum) sections.push(spectrum);
 
   const thumbs = thumbnails(dir, options.thumbnails ?? 8);
   if (thumbs) {
@@ -229,6 +306,68 @@ export async function buildReport(dirIn: string, options: ReportOptions = {}, mo
     sections,
     footer: `Written by domtopo ${VERSION} report on ${new Date().toISOString().slice(0, 10)}. Plots rendered with Vega-Lite.`,
   });
+}
+
+/**
+ * The radial profiles kept in DIR/spectra.csv (frame, field_<unit>, q_per_<unit>, S) through the
+ * spectrum hook, and the spectrum images DIR/spectra/*.png; undefined when there are neither.
+ */
+async function spectrumSection(
+  dir: string, framesPath: string, run: Record<string, any> | undefined, hook: SpectrumPlotHook, svg: (s: PlotSpec) => Promise<string>,
+): Promise<ReportSection | undefined> {
+  const csvPath = join(dir, "spectra.csv");
+  const imageDir = join(dir, "spectra");
+  const images = existsSync(imageDir) && statSync(imageDir).isDirectory()
+    ? readdirSync(imageDir).filter((f) => f.toLowerCase().endsWith(".png")).sort() : [];
+  if (!existsSync(csvPath) && images.length === 0) return undefined;
+  const profiles: SpectrumPlotInput["profiles"] = [];
+  let lengthUnit: string = run?.options?.unit ?? "";
+  let fieldUnit: string = run?.fieldUnit ?? "";
+  if (existsSync(csvPath)) {
+    const t = readCsv(csvPath);
+    const qColumn = t.header.find((h) => /^q(_|$)/.test(h));
+    if (!qColumn || !has(t, "frame", "S")) throw new Error(`${csvPath}: expected columns frame, q_per_<unit> and S, got ${t.header.join(", ")}`);
+    if (qColumn.startsWith("q_per_")) lengthUnit = qColumn.slice("q_per_".length);
+    const fieldColumn = t.header.find((h) => /^field(_|$)/.test(h));
+    if (fieldColumn) fieldUnit = fieldUnitOf(fieldColumn) || fieldUnit;
+    const frame = numericColumn(t, "frame"), q = numericColumn(t, qColumn), sq = numericColumn(t, "S");
+    const field = fieldColumn ? numericColumn(t, fieldColumn, { empty: "null" }) : undefined;
+    const byFrame = new Map<number, SpectrumPlotInput["profiles"][number]>();
+    t.rows.forEach((_, r) => {
+      let p = byFrame.get(frame[r]!);
+      if (!p) {
+        p = { frame: frame[r]!, field: field?.[r] ?? undefined, q: [], s: [] };
+        byFrame.set(frame[r]!, p);
+        profiles.push(p);
+      }
+      p.q.push(q[r]!);
+      p.s.push(sq[r]!);
+    });
+  }
+  const columns: Record<string, number[]> = {};
+  if (existsSync(framesPath)) {
+    const t = readCsv(framesPath);
+    for (const h of t.header) {
+      const v = looseColumn(t, h);
+      if (v.some(Number.isFinite)) columns[h] = v;
+    }
+  }
+  const figures: string[] = [];
+  for (const spec of hook({ columns, fieldUnit, lengthUnit, profiles })) figures.push(await svg(spec));
+  const caption = (file: string) => {
+    const m = /(\d+)\.png$/i.exec(file);
+    const p = m ? profiles.find((x) => x.frame === Number(m[1])) : undefined;
+    return p ? `frame ${p.frame}${p.field !== undefined ? `, H = ${fmt(p.field)} ${fieldUnit}` : ""}` : file;
+  };
+  return {
+    id: "spectrum", title: "Spectrum",
+    intro: [
+      profiles.length ? `Radial profile S(q), the mean of the power spectrum of the phase map over each annulus, of ${profiles.length} frame${profiles.length === 1 ? "" : "s"} (spectra.csv); dashed: the ring q* = 1 / period.` : "",
+      images.length ? "Images: centre of the log-scaled power spectrum (zero frequency in the middle, 4 decades), the ring q* drawn in red (spectra/*.png)." : "",
+    ].filter(Boolean).join(" "),
+    figures,
+    thumbnails: images.map((f) => ({ caption: caption(f), src: `data:image/png;base64,${readFileSync(join(imageDir, f)).toString("base64")}` })),
+  };
 }
 
 async function loopSections(loopDir: string, svg: (s: PlotSpec) => Promise<string>): Promise<ReportSection[]> {
@@ -283,6 +422,9 @@ async function loopSections(loopDir: string, svg: (s: PlotSpec) => Promise<strin
         colors: { "major descending": BRANCH_COLORS.descending, "major ascending": BRANCH_COLORS.ascending },
       })));
     }
+  }
+  if (desc.rows.length > 1 && asc.rows.length > 1) {
+    figures.push(...(await kindAndSpectrumFigures(t, field, [{ label: "descending", rows: desc.rows }, { label: "ascending", rows: asc.rows }], unit, svg, "on the major loop")));
   }
   if (forc?.rho && forc?.reversalFields && forc?.fields) {
     figures.push(await svg(forcHeatmapSpec({

@@ -91,7 +91,7 @@ describe("plot specs and SVG for a web page", () => {
   });
 
   it("come from modules that import nothing of Node", () => {
-    for (const f of ["plots.ts", "svg.ts", "report-html.ts"]) {
+    for (const f of ["plots.ts", "contours.ts", "svg.ts", "report-html.ts"]) {
       const text = readFileSync(join(__dirname, "..", "..", "src", "render", f), "utf8");
       expect(text).not.toMatch(/from\s+["']node:/);
       expect(text).not.toMatch(/from\s+["']vega/);

@@ -2,6 +2,7 @@ import { describe, expect, it, beforeAll } from "vitest";
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, mkdirSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { decode } from "fast-png";
 import { checkWellFormed, run } from "./helpers";
 
 let dir = "";
@@ -66,6 +67,35 @@ describe("domtopo demo with the hysteretic sweep", () => {
   });
 });
 
+describe("the spectra the demo keeps", () => {
+  it("writes S(q) of the maze nearest zero field and of a bubble frame to spectra.csv", () => {
+    const rows = parseCsv(readFileSync(join(demo, "spectra.csv"), "utf8"));
+    expect(Object.keys(rows[0]!)).toEqual(["frame", "field_mT", "q_per_nm", "S"]);
+    // 9 frames from -30 to 30 mT: frame 4 is at 0 mT, frame 1 (-22.5 mT) nearest 2/3 of -30.
+    const frames = [...new Set(rows.map((r) => r.frame))];
+    expect(frames).toEqual(["1", "4"]);
+    expect(rows.filter((r) => r.frame === "4").every((r) => r.field_mT === "0")).toBe(true);
+    for (const f of frames) {
+      const q = rows.filter((r) => r.frame === f).map((r) => Number(r.q_per_nm));
+      expect(q[0]).toBe(0);
+      // Bins of width 1 / (64 px x 10 nm), cycles per nm.
+      q.forEach((v, k) => expect(v).toBeCloseTo(k / 640, 12));
+      expect(rows.filter((r) => r.frame === f).every((r) => Number(r.S) >= 0)).toBe(true);
+    }
+  });
+
+  it("writes each kept frame's spectrum as an image of at least 128 px with the ring in red", () => {
+    expect(readdirSync(join(demo, "spectra")).sort()).toEqual(["frame-0001.png", "frame-0004.png"]);
+    const png = decode(readFileSync(join(demo, "spectra", "frame-0004.png")));
+    expect(png.width).toBe(png.height);
+    expect(png.width).toBeGreaterThanOrEqual(128);
+    const px = png.data as Uint8Array;
+    let red = 0;
+    for (let i = 0; i < px.length; i += png.channels) if (px[i] === 255 && px[i + 1] === 40 && px[i + 2] === 40) red++;
+    expect(red).toBeGreaterThan(0);
+  });
+});
+
 describe("domtopo report", () => {
   it("is written by the demo too", () => {
     expect(existsSync(join(demo, "report.html"))).toBe(true);
@@ -79,16 +109,33 @@ describe("domtopo report", () => {
     const html = readFileSync(out, "utf8");
     expect(html.startsWith("<!DOCTYPE html>")).toBe(true);
     const svgs = html.match(/<svg[\s\S]*?<\/svg>/g) ?? [];
-    // Sweep: m, topology, wall density; loop: m with curves, topology, wall density, FORC, 2 maps.
-    expect(svgs.length).toBe(9);
+    // Sweep: m, topology, wall density, kinds, defects, period/order; loop: m with curves,
+    // topology, wall density, kinds, defects, period/order, FORC, 2 maps; spectrum: S(q).
+    expect(svgs.length).toBe(16);
     for (const s of svgs) checkWellFormed(s);
     expect(html).not.toMatch(/<script|<link|src="http|href="http/);
     expect(html).toContain("Synthetic data");
     expect(html).toContain("FORC distribution rho(Ha, Hb), SF = 2");
     expect(html).toMatch(/<td>coercive field<\/td><td class="num">\d/);
     expect(html).toContain("Run record (run.json)");
-    // The frames as inline PNG thumbnails (the demo writes no overlays).
-    expect((html.match(/src="data:image\/png;base64,/g) ?? []).length).toBe(8);
+    for (const title of ["Domain kinds against field", "Defects against field", "Period, correlation length and order against field",
+      "Domain kinds on the major loop", "Defects on the major loop", "Period, correlation length and order on the major loop"]) {
+      expect(html).toContain(`>${title}</text>`);
+    }
+    expect(html).toContain("contours at 10, 30, 50, 70, 90 % of the peak rho");
+    // 8 overlay thumbnails and the 2 spectrum images.
+    expect((html.match(/src="data:image\/png;base64,/g) ?? []).length).toBe(10);
+  });
+
+  it("shows S(q) of the kept frames and their spectrum images in a spectrum section", () => {
+    const html = readFileSync(join(demo, "report.html"), "utf8");
+    const section = /<section id="spectrum">([\s\S]*?)<\/section>/.exec(html)?.[1] ?? "";
+    expect(section).toContain("<h2>Spectrum</h2>");
+    expect(section).toContain(">Radial spectrum S(q)</text>");
+    expect(section).toContain("S(q) (annulus mean, log scale)");
+    expect(section).toContain(">frame 1, H = -22.5 mT</text>");
+    expect(section).toContain(">frame 4, H = 0 mT</text>");
+    expect((section.match(/<img alt="frame \d, H = [-\d.]+ mT" src="data:image\/png;base64,/g) ?? []).length).toBe(2);
   });
 
   it("prefers DIR/overlays/*.png for the thumbnails when they exist", () => {
@@ -102,6 +149,8 @@ describe("domtopo report", () => {
     expect(html).toContain("<h2>Overlays</h2>");
     expect(html).toContain("overlay-0000.png");
     expect(html).not.toContain("Synthetic data"); // no run.json here says so
+    expect(html).not.toContain('<section id="spectrum">'); // no spectra.csv here
+    expect(html).toContain(">Domain kinds against field</text>"); // the columns are there
   });
 
   it("names a folder that is not a run, exits with 1 and writes nothing", () => {
