@@ -1,8 +1,8 @@
 // The TS side of the skeleton kernels: a workspace sized for one frame shape that thins both
 // phases and computes the other-phase distance (local half-width) of every pixel.
 import { kernels } from "./instance";
-import { wasmAlloc, wasmFree, viewU8, viewF32 } from "./heap";
-import type { KernelExports, SkeletonKernelExports } from "./exports";
+import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32 } from "./heap";
+import type { KernelExports, SkeletonKernelExports, SkeletonGraphKernelExports } from "./exports";
 
 /** Which phase is 8-connected: 0 up (down 4), 1 down (up 4), 2 saddle decisions per quad. */
 export type ConnectivityRule = 0 | 1 | 2;
@@ -119,4 +119,50 @@ export function thinPhases(
   } finally {
     ws.dispose();
   }
+}
+
+/** Skeleton pixel adjacency of one frame. Views into Wasm memory: valid until the next call. */
+export interface SkeletonNeighbours {
+  /** Skeleton pixels in raster order (the first `count` entries). */
+  list: Int32Array;
+  count: number;
+  /** Number of skeleton neighbours of each pixel (0 off the skeleton). */
+  degree: Uint8Array;
+  /** For pixel i: 8 j + direction (0..7 = E, N, W, S, NE, NW, SW, SE) at [8 i, 8 i + degree[i]). */
+  neighbours: Int32Array;
+}
+
+let adjacency: { n: number; ph: number; sk: number; qm: number; deg: number; list: number; nbr: number } | undefined;
+
+/**
+ * Skeleton neighbours of every skeleton pixel (same phase; diagonals as the phase is connected).
+ * Memory for one frame size is kept between calls (a movie reuses it).
+ */
+export function skeletonNeighbours(
+  skeleton: Uint8Array, phase: Uint8Array, width: number, height: number, geometry: ThinGeometry,
+): SkeletonNeighbours {
+  const n = width * height;
+  if (skeleton.length !== n || phase.length !== n) {
+    throw new RangeError(`domtopo: skeleton and phase need ${n} pixels, got ${skeleton.length} and ${phase.length}`);
+  }
+  if (geometry.rule === 2 && (!geometry.quads || geometry.quads.length !== n)) {
+    throw new RangeError(`domtopo: the saddle rule needs ${n} quad decisions, got ${geometry.quads?.length ?? 0}`);
+  }
+  const k = kernels() as K & SkeletonGraphKernelExports;
+  if (!adjacency || adjacency.n !== n) {
+    if (adjacency) for (const p of [adjacency.ph, adjacency.sk, adjacency.qm, adjacency.deg, adjacency.list, adjacency.nbr]) wasmFree(p);
+    adjacency = { n, ph: wasmAlloc(n), sk: wasmAlloc(n), qm: wasmAlloc(n), deg: wasmAlloc(n), list: wasmAlloc(4 * n), nbr: wasmAlloc(32 * n) };
+  }
+  const a = adjacency;
+  const ph = viewU8(a.ph, n);
+  for (let i = 0; i < n; i++) ph[i] = phase[i]! === 0 ? 0 : 1;
+  viewU8(a.sk, n).set(skeleton);
+  if (geometry.rule === 2) viewU8(a.qm, n).set(geometry.quads!);
+  k.setGeometry(width, height, geometry.periodicX ? 1 : 0, geometry.periodicY ? 1 : 0, geometry.rule);
+  k.setBuffers(a.ph, 0, 0, a.qm);
+  const count = k.skeletonNeighbours(a.sk, a.nbr, a.deg, a.list);
+  return {
+    list: viewI32(a.list, count), count,
+    degree: viewU8(a.deg, n), neighbours: viewI32(a.nbr, 8 * n),
+  };
 }
