@@ -219,9 +219,12 @@ function markRim(i: i32): void {
   return <i32>load<u8>(TABLE + <usize>code);
 }
 
+// SK bit 7 (DIRTY): a neighbour left the skeleton since the last directional marking scan.
+const DIRTY: i32 = 128;
+
 @inline function enlist(j: i32): void {
   const s = <i32>load<u8>(SK + <usize>j);
-  store<u8>(SK + <usize>j, <u8>(s | 6)); // listed, touched
+  store<u8>(SK + <usize>j, <u8>(s | 6 | DIRTY)); // listed, touched, dirty
   if ((s & 2) == 0) {
     stl(LA, NLIST, j);
     NLIST++;
@@ -255,8 +258,8 @@ function compactList(settled: bool): void {
   for (let j = 0; j < NLIST; j++) {
     const i = ldl(LA, j);
     const s = <i32>load<u8>(SK + <usize>i);
-    if ((s & 1) != 0 && (!settled || (s & 4) != 0)) { stl(LA, k, i); k++; store<u8>(SK + <usize>i, <u8>(s & ~4)); }
-    else store<u8>(SK + <usize>i, <u8>(s & ~6));
+    if ((s & 1) != 0 && (!settled || (s & 4) != 0)) { stl(LA, k, i); k++; store<u8>(SK + <usize>i, <u8>(s & ~(4 | DIRTY))); }
+    else store<u8>(SK + <usize>i, <u8>(s & ~(6 | DIRTY)));
   }
   NLIST = k;
 }
@@ -399,14 +402,27 @@ export function thinPhase(v: i32): i32 {
       const m = NLIST;
       for (let j = 0; j < m; j++) {
         const i = ldl(LA, j);
-        const s = <i32>load<u8>(SK + <usize>i);
+        let s = <i32>load<u8>(SK + <usize>i);
+        if ((s & DIRTY) != 0) { s &= ~DIRTY; store<u8>(SK + <usize>i, <u8>s); }
         if ((s & sm) != sm) continue;
         if ((s & EDGE) == 0 && (<i32>load<u8>(SK + <usize>(i + off)) & sm) == sm) continue;
         const c = gather(v, i);
         if ((c & bit) == 0 && entry(c) == 1) { stl(LB2, nc, i); nc++; }
       }
+      // Every pixel whose ring lost a pixel since the marking scan carries DIRTY (all such
+      // pixels are listed, and the scan cleared the bit): the others are still deletable as
+      // marked, and only need their ring's indices for listing.
       for (let k = 0; k < nc; k++) {
         const i = ldl(LB2, k);
+        const s = <i32>load<u8>(SK + <usize>i);
+        if ((s & (DIRTY | EDGE)) == 0) {
+          E_ = i + 1; NE_ = i - w + 1; N_ = i - w; NW_ = i - w - 1;
+          W_ = i - 1; SW_ = i + w - 1; S_ = i + w; SE_ = i + w + 1;
+          setSkel(i, false);
+          changed = true;
+          enlistNeighbours(v);
+          continue;
+        }
         const c = gather(v, i);
         if ((c & bit) == 0 && entry(c) == 1) {
           setSkel(i, false);
