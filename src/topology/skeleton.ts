@@ -4,7 +4,7 @@
 // Pixels are adjacent as the domain's phase is connected: 4-neighbours always, a diagonal pair
 // where joinsDiagonal holds for its quad (the 8-phase: always; the 4-phase: never; saddle: per
 // quad). So the 4-phase's skeleton is a 4-connected line and its degrees count 4-adjacency.
-import { skeletonNeighbours, type ConnectivityRule } from "../wasm/skeleton";
+import { skeletonNeighbours, type ConnectivityRule, type SkeletonNeighbours } from "../wasm/skeleton";
 
 /** The thinned frame and the labels it belongs to. */
 export interface SkeletonGraphInput {
@@ -23,6 +23,8 @@ export interface SkeletonGraphInput {
   periodicY: boolean;
   rule: ConnectivityRule;
   quads?: Uint8Array;
+  /** The skeleton's adjacency, when already at hand (SkeletonWorkspace.neighbours() after the run that gave `skeleton`). */
+  adjacency?: SkeletonNeighbours;
 }
 
 export interface GraphOptions {
@@ -126,7 +128,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
   // each 8 j + the direction of j (0..7 = E, N, W, S, NE, NW, SW, SE).
   const pool = scratch(n);
-  const adj = skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
+  const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
   const deg = adj.degree, nbr = adj.neighbours, skelPixels = adj.list, skelCount = adj.count;
   // Step length by direction: 1 along a row or column, sqrt 2 on a diagonal.
   const STEP = [1, 1, 1, 1, SQRT2, SQRT2, SQRT2, SQRT2];

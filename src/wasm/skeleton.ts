@@ -49,6 +49,8 @@ export class SkeletonWorkspace {
   private readonly counts: number;
   private readonly levels: number;
   private disposed = false;
+  private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
+  private lastGeometry: ThinGeometry | undefined;
 
   constructor(width: number, height: number) {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
@@ -94,13 +96,29 @@ export class SkeletonWorkspace {
       ? k.thinByDistance(this.dist, this.counts, this.levels)
       : k.thinPhase(1) + k.thinPhase(0);
     k.thinFinish(n);
+    this.lastGeometry = geometry;
     return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n), blocksLeft };
+  }
+
+  /**
+   * Adjacency of the skeleton of the last `run` (as skeletonNeighbours would give it for that
+   * skeleton, without copying the frame in again). Views: valid until the next call.
+   */
+  neighbours(): SkeletonNeighbours {
+    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
+    const g = this.lastGeometry;
+    if (!g) throw new Error("domtopo: SkeletonWorkspace.neighbours() needs a run first");
+    const n = this.width * this.height;
+    this.adjacencyBuffers ??= { deg: wasmAlloc(n), list: wasmAlloc(4 * n), nbr: wasmAlloc(32 * n) };
+    const a = this.adjacencyBuffers;
+    return adjacencyOf(this.width, this.height, g, this.ph, this.sk, this.qm, a.deg, a.list, a.nbr);
   }
 
   /** Returns the workspace's memory to the heap. */
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
+    if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts]) wasmFree(p);
   }
 }
@@ -148,7 +166,6 @@ export function skeletonNeighbours(
   if (geometry.rule === 2 && (!geometry.quads || geometry.quads.length !== n)) {
     throw new RangeError(`domtopo: the saddle rule needs ${n} quad decisions, got ${geometry.quads?.length ?? 0}`);
   }
-  const k = kernels() as K & SkeletonGraphKernelExports;
   if (!adjacency || adjacency.n !== n) {
     if (adjacency) for (const p of [adjacency.ph, adjacency.sk, adjacency.qm, adjacency.deg, adjacency.list, adjacency.nbr]) wasmFree(p);
     adjacency = { n, ph: wasmAlloc(n), sk: wasmAlloc(n), qm: wasmAlloc(n), deg: wasmAlloc(n), list: wasmAlloc(4 * n), nbr: wasmAlloc(32 * n) };
@@ -158,11 +175,18 @@ export function skeletonNeighbours(
   for (let i = 0; i < n; i++) ph[i] = phase[i]! === 0 ? 0 : 1;
   viewU8(a.sk, n).set(skeleton);
   if (geometry.rule === 2) viewU8(a.qm, n).set(geometry.quads!);
+  return adjacencyOf(width, height, geometry, a.ph, a.sk, a.qm, a.deg, a.list, a.nbr);
+}
+
+/** Runs the adjacency kernel on buffers already in Wasm memory. */
+function adjacencyOf(
+  width: number, height: number, geometry: ThinGeometry,
+  ph: number, sk: number, qm: number, deg: number, list: number, nbr: number,
+): SkeletonNeighbours {
+  const k = kernels() as K & SkeletonGraphKernelExports;
+  const n = width * height;
   k.setGeometry(width, height, geometry.periodicX ? 1 : 0, geometry.periodicY ? 1 : 0, geometry.rule);
-  k.setBuffers(a.ph, 0, 0, a.qm);
-  const count = k.skeletonNeighbours(a.sk, a.nbr, a.deg, a.list);
-  return {
-    list: viewI32(a.list, count), count,
-    degree: viewU8(a.deg, n), neighbours: viewI32(a.nbr, 8 * n),
-  };
+  k.setBuffers(ph, 0, 0, qm);
+  const count = k.skeletonNeighbours(sk, nbr, deg, list);
+  return { list: viewI32(list, count), count, degree: viewU8(deg, n), neighbours: viewI32(nbr, 8 * n) };
 }
