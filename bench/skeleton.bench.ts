@@ -180,9 +180,9 @@ console.log(`\n${rounds} interleaved rounds; median ms per frame (both phases); 
 for (const size of sizes) {
   const zs = byName.get(`${size} Zhang-Suen plain TS`)!;
   console.log(`\n${size} x ${size}`);
-  console.log(`  ${"pass".padEnd(36)}${"before".padStart(10)}${"after".padStart(10)}${"before/after".padStart(14)}${"ZS/after".padStart(10)}`);
+  console.log(`  ${"pass".padEnd(44)}${"before".padStart(10)}${"after".padStart(10)}${"before/after".padStart(14)}${"ZS/after".padStart(10)}`);
   const row = (pass: string, b: Candidate, a: Candidate) =>
-    console.log(`  ${pass.padEnd(36)}${median(b.ms).toFixed(2).padStart(10)}${median(a.ms).toFixed(2).padStart(10)}` +
+    console.log(`  ${pass.padEnd(44)}${median(b.ms).toFixed(2).padStart(10)}${median(a.ms).toFixed(2).padStart(10)}` +
       `${(ratio(b, a).toFixed(2) + "x").padStart(14)}${(ratio(zs, a).toFixed(2) + "x").padStart(10)}`);
   /** Per round: the workspace run minus the distance map timed in the same round. */
   const thinOnly = (side: string): Candidate => {
@@ -194,5 +194,5 @@ for (const size of sizes) {
     row(pass === PASSES[3] ? `${pass} (total)` : pass, b, a);
     if (pass === "thinning + distance") row("  thinning (run - distance)", thinOnly("before"), thinOnly("after"));
   }
-  console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(36)}${median(zs.ms).toFixed(2).padStart(20)}`);
+  console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(44)}${median(zs.ms).toFixed(2).padStart(20)}`);
 }
