@@ -243,6 +243,18 @@ function enlistNeighbours(v: i32): void {
   if (inSkel(v, SE_)) enlist(SE_);
 }
 
+/** enlistNeighbours for a pixel off the rim: the ring at fixed offsets, same order. */
+@inline function enlistRing(m: i32, i: i32, w: i32): void {
+  if ((<i32>load<u8>(SK + <usize>(i + 1)) & m) == m) enlist(i + 1);
+  if ((<i32>load<u8>(SK + <usize>(i - w + 1)) & m) == m) enlist(i - w + 1);
+  if ((<i32>load<u8>(SK + <usize>(i - w)) & m) == m) enlist(i - w);
+  if ((<i32>load<u8>(SK + <usize>(i - w - 1)) & m) == m) enlist(i - w - 1);
+  if ((<i32>load<u8>(SK + <usize>(i - 1)) & m) == m) enlist(i - 1);
+  if ((<i32>load<u8>(SK + <usize>(i + w - 1)) & m) == m) enlist(i + w - 1);
+  if ((<i32>load<u8>(SK + <usize>(i + w)) & m) == m) enlist(i + w);
+  if ((<i32>load<u8>(SK + <usize>(i + w + 1)) & m) == m) enlist(i + w + 1);
+}
+
 @inline function setSkel(j: i32, on: bool): void {
   const s = <i32>load<u8>(SK + <usize>j);
   store<u8>(SK + <usize>j, <u8>(on ? s | 1 : s & ~1));
@@ -416,11 +428,9 @@ export function thinPhase(v: i32): i32 {
         const i = ldl(LB2, k);
         const s = <i32>load<u8>(SK + <usize>i);
         if ((s & (DIRTY | EDGE)) == 0) {
-          E_ = i + 1; NE_ = i - w + 1; N_ = i - w; NW_ = i - w - 1;
-          W_ = i - 1; SW_ = i + w - 1; S_ = i + w; SE_ = i + w + 1;
-          setSkel(i, false);
+          store<u8>(SK + <usize>i, <u8>(s & ~1));
           changed = true;
-          enlistNeighbours(v);
+          enlistRing(sm, i, w);
           continue;
         }
         const c = gather(v, i);
