@@ -6,5 +6,6 @@ export * from "./label";
 export * from "./measure";
 export * from "./thin";
 export * from "./edt";
+export * from "./skeleton-graph";
 export * from "./fft";
 export * from "./spectrum";

@@ -188,13 +188,43 @@ function initSkeleton(): void {
   }
 }
 
+// SK bit 6 marks the pixels of either phase with a 4-neighbour of the other phase or outside an
+// open side (set once per frame by markBorder, before any deletion).
+const BORDER: i32 = 64;
+
+/** Sets BORDER on the first border of both phases: 4-neighbour of the other phase or beyond an open side. */
+function markBorder(): void {
+  const w = W, h = H, uw = <usize>w;
+  for (let y = 1; y < h - 1; y++) {
+    const r = y * w;
+    for (let i = r + 1, e = r + w - 1; i < e; i++) {
+      const p = PH + <usize>i;
+      const c = <i32>load<u8>(p);
+      const d = (<i32>load<u8>(p - 1) ^ c) | (<i32>load<u8>(p + 1) ^ c) |
+        (<i32>load<u8>(p - uw) ^ c) | (<i32>load<u8>(p + uw) ^ c);
+      if (d != 0) store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) | BORDER));
+    }
+  }
+  for (let x = 0; x < w; x++) { markRim(x); markRim((h - 1) * w + x); }
+  for (let y = 0; y < h; y++) { markRim(y * w); markRim(y * w + w - 1); }
+}
+
+function markRim(i: i32): void {
+  const s = <i32>load<u8>(SK + <usize>i);
+  const v = (s & 16) != 0 ? 1 : 0;
+  if ((gatherEdge(v, i) & 0x55) != 0x55) store<u8>(SK + <usize>i, <u8>(s | BORDER));
+}
+
 @inline function entry(code: i32): i32 {
   return <i32>load<u8>(TABLE + <usize>code);
 }
 
+// SK bit 7 (DIRTY): a neighbour left the skeleton since the last directional marking scan.
+const DIRTY: i32 = 128;
+
 @inline function enlist(j: i32): void {
   const s = <i32>load<u8>(SK + <usize>j);
-  store<u8>(SK + <usize>j, <u8>(s | 6)); // listed, touched
+  store<u8>(SK + <usize>j, <u8>(s | 6 | DIRTY)); // listed, touched, dirty
   if ((s & 2) == 0) {
     stl(LA, NLIST, j);
     NLIST++;
@@ -213,6 +243,18 @@ function enlistNeighbours(v: i32): void {
   if (inSkel(v, SE_)) enlist(SE_);
 }
 
+/** enlistNeighbours for a pixel off the rim: the ring at fixed offsets, same order. */
+@inline function enlistRing(m: i32, i: i32, w: i32): void {
+  if ((<i32>load<u8>(SK + <usize>(i + 1)) & m) == m) enlist(i + 1);
+  if ((<i32>load<u8>(SK + <usize>(i - w + 1)) & m) == m) enlist(i - w + 1);
+  if ((<i32>load<u8>(SK + <usize>(i - w)) & m) == m) enlist(i - w);
+  if ((<i32>load<u8>(SK + <usize>(i - w - 1)) & m) == m) enlist(i - w - 1);
+  if ((<i32>load<u8>(SK + <usize>(i - 1)) & m) == m) enlist(i - 1);
+  if ((<i32>load<u8>(SK + <usize>(i + w - 1)) & m) == m) enlist(i + w - 1);
+  if ((<i32>load<u8>(SK + <usize>(i + w)) & m) == m) enlist(i + w);
+  if ((<i32>load<u8>(SK + <usize>(i + w + 1)) & m) == m) enlist(i + w + 1);
+}
+
 @inline function setSkel(j: i32, on: bool): void {
   const s = <i32>load<u8>(SK + <usize>j);
   store<u8>(SK + <usize>j, <u8>(on ? s | 1 : s & ~1));
@@ -228,8 +270,8 @@ function compactList(settled: bool): void {
   for (let j = 0; j < NLIST; j++) {
     const i = ldl(LA, j);
     const s = <i32>load<u8>(SK + <usize>i);
-    if ((s & 1) != 0 && (!settled || (s & 4) != 0)) { stl(LA, k, i); k++; store<u8>(SK + <usize>i, <u8>(s & ~4)); }
-    else store<u8>(SK + <usize>i, <u8>(s & ~6));
+    if ((s & 1) != 0 && (!settled || (s & 4) != 0)) { stl(LA, k, i); k++; store<u8>(SK + <usize>i, <u8>(s & ~(4 | DIRTY))); }
+    else store<u8>(SK + <usize>i, <u8>(s & ~(6 | DIRTY)));
   }
   NLIST = k;
 }
@@ -352,30 +394,45 @@ export function thinPhase(v: i32): i32 {
   WY = PY && h >= 3;
   NLIST = 0;
   DIAG = joinsDiagonal(v, 0) ? 0xf00 : 0;
-  if (v == 1) initSkeleton();
-  // Initial border: phase-v pixels with a 4-neighbour outside the skeleton.
+  if (v == 1) { initSkeleton(); markBorder(); }
+  // Initial border: phase-v pixels with a 4-neighbour outside the skeleton (BORDER, raster order).
+  const bm = BORDER | (8 << v);
   for (let i = 0; i < n; i++) {
-    if (!inSkel(v, i)) continue;
-    const c = gather(v, i);
-    if ((c & 0x55) != 0x55) enlist(i);
+    if ((<i32>load<u8>(SK + <usize>i) & bm) == bm) { stl(LA, NLIST, i); NLIST++; }
   }
-  compactList(false); // clears the touched bits
   // Directional sweeps: N (bit 2), S (bit 6), E (bit 0), W (bit 4) border pixels in turn.
   let changed = true;
   while (changed) {
     changed = false;
     for (let dir = 0; dir < 4; dir++) {
       const bit = dir == 0 ? 4 : dir == 1 ? 64 : dir == 2 ? 1 : 16;
+      // The neighbour on the swept side must be outside the skeleton: read that one byte
+      // before the whole neighbourhood (rim pixels take the wrap-aware gather).
+      const off = dir == 0 ? -w : dir == 1 ? w : dir == 2 ? 1 : -1;
+      const sm = 1 | (8 << v);
       let nc = 0;
       const m = NLIST;
       for (let j = 0; j < m; j++) {
         const i = ldl(LA, j);
-        if (!inSkel(v, i)) continue;
+        let s = <i32>load<u8>(SK + <usize>i);
+        if ((s & DIRTY) != 0) { s &= ~DIRTY; store<u8>(SK + <usize>i, <u8>s); }
+        if ((s & sm) != sm) continue;
+        if ((s & EDGE) == 0 && (<i32>load<u8>(SK + <usize>(i + off)) & sm) == sm) continue;
         const c = gather(v, i);
         if ((c & bit) == 0 && entry(c) == 1) { stl(LB2, nc, i); nc++; }
       }
+      // Every pixel whose ring lost a pixel since the marking scan carries DIRTY (all such
+      // pixels are listed, and the scan cleared the bit): the others are still deletable as
+      // marked, and only need their ring's indices for listing.
       for (let k = 0; k < nc; k++) {
         const i = ldl(LB2, k);
+        const s = <i32>load<u8>(SK + <usize>i);
+        if ((s & (DIRTY | EDGE)) == 0) {
+          store<u8>(SK + <usize>i, <u8>(s & ~1));
+          changed = true;
+          enlistRing(sm, i, w);
+          continue;
+        }
         const c = gather(v, i);
         if ((c & bit) == 0 && entry(c) == 1) {
           setSkel(i, false);

@@ -1,9 +1,10 @@
 // Thinning + skeleton graph + classification of both phases of generated mazes: this tree
 // ("after") against an earlier revision ("before", the same sources at git revision
-// SKELETON_BEFORE, default 9fa6ac9, built once into the temp folder outside the timed part) and
+// SKELETON_BEFORE, default 3b0aa7f, built once into the temp folder outside the timed part) and
 // a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
-// Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the skeleton
-// graph (TS, from a thinned frame), and the whole analyzeSkeletons call.
+// Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the thinning
+// alone (that run minus the distance map of the same round), the skeleton graph (from a thinned
+// frame), and the whole analyzeSkeletons call (the total).
 //
 // The machine is usually shared: candidates are timed in interleaved rounds (every candidate
 // once per round, rotated order), each ratio is taken within a round, and medians over rounds
@@ -24,7 +25,7 @@ const quick = process.argv.includes("--quick");
 const roundsArg = process.argv.indexOf("--rounds");
 const rounds = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : quick ? 7 : 21;
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
-const beforeRev = process.env.SKELETON_BEFORE ?? "9fa6ac9";
+const beforeRev = process.env.SKELETON_BEFORE ?? "3b0aa7f";
 
 /** The sources of `rev` with their kernels built, in a temp folder (made once per revision). */
 function beforeTree(rev: string): string {
@@ -179,11 +180,19 @@ console.log(`\n${rounds} interleaved rounds; median ms per frame (both phases); 
 for (const size of sizes) {
   const zs = byName.get(`${size} Zhang-Suen plain TS`)!;
   console.log(`\n${size} x ${size}`);
-  console.log(`  ${"pass".padEnd(36)}${"before".padStart(10)}${"after".padStart(10)}${"before/after".padStart(14)}${"ZS/after".padStart(10)}`);
+  console.log(`  ${"pass".padEnd(44)}${"before".padStart(10)}${"after".padStart(10)}${"before/after".padStart(14)}${"ZS/after".padStart(10)}`);
+  const row = (pass: string, b: Candidate, a: Candidate) =>
+    console.log(`  ${pass.padEnd(44)}${median(b.ms).toFixed(2).padStart(10)}${median(a.ms).toFixed(2).padStart(10)}` +
+      `${(ratio(b, a).toFixed(2) + "x").padStart(14)}${(ratio(zs, a).toFixed(2) + "x").padStart(10)}`);
+  /** Per round: the workspace run minus the distance map timed in the same round. */
+  const thinOnly = (side: string): Candidate => {
+    const run = byName.get(`${size} ${side} thinning + distance`)!, dist = byName.get(`${size} ${side} distance`)!;
+    return { name: `${size} ${side} thinning`, run: () => {}, reps: 1, ms: run.ms.map((v, r) => Math.max(1e-3, v - dist.ms[r]!)) };
+  };
   for (const pass of PASSES) {
     const b = byName.get(`${size} before ${pass}`)!, a = byName.get(`${size} after ${pass}`)!;
-    console.log(`  ${pass.padEnd(36)}${median(b.ms).toFixed(2).padStart(10)}${median(a.ms).toFixed(2).padStart(10)}` +
-      `${(ratio(b, a).toFixed(2) + "x").padStart(14)}${(ratio(zs, a).toFixed(2) + "x").padStart(10)}`);
+    row(pass === PASSES[3] ? `${pass} (total)` : pass, b, a);
+    if (pass === "thinning + distance") row("  thinning (run - distance)", thinOnly("before"), thinOnly("after"));
   }
-  console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(36)}${median(zs.ms).toFixed(2).padStart(20)}`);
+  console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(44)}${median(zs.ms).toFixed(2).padStart(20)}`);
 }

@@ -129,8 +129,9 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
+  const adjacency = ws.neighbours();
   const graph = skeletonGraph(
-    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads },
+    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, adjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);

@@ -4,7 +4,7 @@
 // Pixels are adjacent as the domain's phase is connected: 4-neighbours always, a diagonal pair
 // where joinsDiagonal holds for its quad (the 8-phase: always; the 4-phase: never; saddle: per
 // quad). So the 4-phase's skeleton is a 4-connected line and its degrees count 4-adjacency.
-import type { ConnectivityRule } from "../wasm/skeleton";
+import { skeletonNeighbours, type ConnectivityRule, type SkeletonNeighbours } from "../wasm/skeleton";
 
 /** The thinned frame and the labels it belongs to. */
 export interface SkeletonGraphInput {
@@ -23,6 +23,8 @@ export interface SkeletonGraphInput {
   periodicY: boolean;
   rule: ConnectivityRule;
   quads?: Uint8Array;
+  /** The skeleton's adjacency, when already at hand (SkeletonWorkspace.neighbours() after the run that gave `skeleton`). */
+  adjacency?: SkeletonNeighbours;
 }
 
 export interface GraphOptions {
@@ -91,12 +93,31 @@ const SQRT2 = Math.SQRT2;
 const CHORD = Float64Array.from({ length: 9 }, (_v, k) => Math.hypot(Math.floor(k / 3), k % 3) / 2);
 
 // Per-pixel scratch, kept between calls of one frame size (a movie reuses it).
-let pooled: { n: number; deg: Uint8Array; nbr: Int32Array; node: Int32Array; seen: Uint8Array } | undefined;
+let pooled: { n: number; node: Int32Array; seen: Uint8Array } | undefined;
 function scratch(n: number) {
-  if (!pooled || pooled.n !== n) {
-    pooled = { n, deg: new Uint8Array(n), nbr: new Int32Array(8 * n), node: new Int32Array(n), seen: new Uint8Array(n) };
-  }
+  if (!pooled || pooled.n !== n) pooled = { n, node: new Int32Array(n), seen: new Uint8Array(n) };
   return pooled;
+}
+
+// Direction codes of the adjacency kernel: 0..7 = E, N, W, S, NE, NW, SW, SE (y grows downward).
+const DX = [1, 0, -1, 0, 1, -1, -1, 1];
+const DY = [0, -1, 0, 1, -1, -1, 1, 1];
+const REVERSE = [2, 3, 0, 1, 6, 7, 4, 5];
+let chordCache: { key: string; table: Float64Array } | undefined;
+
+/** chords[8 a + b]: half the chord of a step in direction a followed by one in direction b. */
+function chordTable(w: number, h: number, px: boolean, py: boolean): Float64Array {
+  const key = `${w} ${h} ${px} ${py}`;
+  if (chordCache?.key === key) return chordCache.table;
+  const table = new Float64Array(64);
+  for (let a = 0; a < 8; a++) for (let b = 0; b < 8; b++) {
+    let dx = Math.abs(DX[a]! + DX[b]!), dy = Math.abs(DY[a]! + DY[b]!);
+    if (px && dx > w / 2) dx = w - dx;
+    if (py && dy > h / 2) dy = h - dy;
+    table[8 * a + b] = CHORD[3 * dx + dy]!;
+  }
+  chordCache = { key, table };
+  return table;
 }
 
 /** Builds the pixel graph of the skeleton, then prunes and merges it. */
@@ -104,70 +125,25 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const { width: w, height: h, phase, labels, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
   const n = w * h;
   const px = periodicX && w >= 3, py = periodicY && h >= 3;
-  // Neighbour lists of skeleton pixels, packed: for pixel i, nbr[8i .. 8i + deg - 1].
+  // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
+  // each 8 j + the direction of j (0..7 = E, N, W, S, NE, NW, SW, SE).
   const pool = scratch(n);
-  const deg = pool.deg, nbr = pool.nbr;
-  deg.fill(0);
-  const joinsDiag = (v: number, q: number): boolean => {
-    if (rule === 0) return v === 1;
-    if (rule === 1) return v === 0;
-    const d = quads![q]!;
-    return d === 2 || d === v;
-  };
-  const skelPixels: number[] = [];
-  const fixedDiag = rule === 2 ? -1 : rule === 0 ? 1 : 0; // phase whose diagonals join (fixed rules)
-  for (let y = 0; y < h; y++) {
-    const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
-    const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
-    const row = y * w;
-    for (let x = 0; x < w; x++) {
-      const i = row + x;
-      if (!sk[i]) continue;
-      skelPixels.push(i);
-      const v = phase[i]!;
-      const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
-      const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
-      let d = 0;
-      const base = 8 * i;
-      let j: number;
-      if (xp >= 0) { j = row + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-      if (ym >= 0) { j = ym * w + x; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-      if (xm >= 0) { j = row + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-      if (yp >= 0) { j = yp * w + x; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-      // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y).
-      const all = fixedDiag === v;
-      if (fixedDiag < 0 || all) {
-        if (ym >= 0 && xp >= 0 && (all || joinsDiag(v, ym * w + x))) { j = ym * w + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-        if (ym >= 0 && xm >= 0 && (all || joinsDiag(v, ym * w + xm))) { j = ym * w + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-        if (yp >= 0 && xm >= 0 && (all || joinsDiag(v, row + xm))) { j = yp * w + xm; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-        if (yp >= 0 && xp >= 0 && (all || joinsDiag(v, i))) { j = yp * w + xp; if (sk[j] && phase[j] === v) nbr[base + d++] = j; }
-      }
-      deg[i] = d;
-    }
-  }
-  // Neighbours differ by a column and a row exactly when their index difference is not +-1 or
-  // +-w (+-(w - 1) and +-(h - 1) w across a periodic wrap).
-  const step = (a: number, b: number): number => {
-    const ax = a % w, bx = b % w;
-    return ax !== bx && a - ax !== b - bx ? SQRT2 : 1;
-  };
+  const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
+  const deg = adj.degree, nbr = adj.neighbours, skelPixels = adj.list, skelCount = adj.count;
+  // Step length by direction: 1 along a row or column, sqrt 2 on a diagonal.
+  const STEP = [1, 1, 1, 1, SQRT2, SQRT2, SQRT2, SQRT2];
   // Half the chord to the pixel two steps back: straight runs count 1 a step, diagonal runs
   // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps). Two steps
-  // apart, |dx| and |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2.
-  const chord = (a: number, b: number): number => {
-    const ax = a % w, bx = b % w;
-    let dx = bx > ax ? bx - ax : ax - bx;
-    let dy = Math.abs(a - ax - (b - bx)) / w;
-    if (px && dx > w / 2) dx = w - dx;
-    if (py && dy > h / 2) dy = h - dy;
-    return dx <= 2 && dy <= 2 ? CHORD[3 * dx + dy]! : Math.hypot(dx, dy) / 2;
-  };
+  // apart, |dx| and |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2; on a periodic
+  // axis the shorter way round counts (a frame 3 pixels wide). chords[8 a + b]: steps a then b.
+  const chords = chordTable(w, h, px, py);
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
   const node = pool.node;
   node.fill(-1);
   const nodePixel: number[] = [], nodeDomain: number[] = [], nodeDegree: number[] = [], nodeHalf: number[] = [];
   const stack: number[] = [];
-  for (const i of skelPixels) {
+  for (let t = 0; t < skelCount; t++) {
+    const i = skelPixels[t]!;
     if (node[i] !== -1 || deg[i] === 2) continue;
     const id = nodePixel.length;
     let best = i;
@@ -178,7 +154,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
         const p = stack.pop()!;
         if (distance[p]! > distance[best]!) best = p;
         for (let k = 0; k < deg[p]!; k++) {
-          const q = nbr[8 * p + k]!;
+          const q = nbr[8 * p + k]! >>> 3;
           if (node[q] === -1 && deg[q]! >= 3) { node[q] = id; stack.push(q); }
         }
       }
@@ -192,19 +168,24 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const seen = pool.seen;
   seen.fill(0);
   const owner = new Int32Array(n).fill(-1);
-  for (const i of skelPixels) if (node[i] !== -1) owner[i] = -2 - node[i]!;
+  for (let t = 0; t < skelCount; t++) {
+    const i = skelPixels[t]!;
+    if (node[i] !== -1) owner[i] = -2 - node[i]!;
+  }
   const bA: number[] = [], bB: number[] = [], bD: number[] = [], bL: number[] = [], bS: number[] = [], bP: number[] = [], bM: number[] = [];
   const endWeight = (p: number) => (deg[p] === 1 ? 1 : 0);
-  for (const u of skelPixels) {
+  for (let t = 0; t < skelCount; t++) {
+    const u = skelPixels[t]!;
     const a = node[u]!;
     if (a === -1) continue;
     for (let k = 0; k < deg[u]!; k++) {
-      const wpx = nbr[8 * u + k]!;
+      const e0 = nbr[8 * u + k]!;
+      const wpx = e0 >>> 3, d0 = e0 & 7;
       const b0 = node[wpx]!;
       if (b0 !== -1) {
         // Node pixel next to node pixel: a branch without interior (once, from the lower index).
         if (b0 === a || wpx < u) continue;
-        bA.push(a); bB.push(b0); bD.push(labels[u]!); bL.push(step(u, wpx));
+        bA.push(a); bB.push(b0); bD.push(labels[u]!); bL.push(STEP[d0]!);
         bS.push(endWeight(u) * distance[u]! + endWeight(wpx) * distance[wpx]!);
         bP.push(endWeight(u) + endWeight(wpx));
         bM.push(Math.max(distance[u]!, distance[wpx]!));
@@ -213,7 +194,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
         continue;
       }
       if (seen[wpx]) continue;
-      let prev = u, cur = wpx, len = step(u, wpx) / 2;
+      let prev = u, cur = wpx, din = d0, len = STEP[d0]! / 2;
       // Mean width from interior pixels (end pixels sit at the domain border, junctions widen).
       let sum = 0, cnt = 0, mx = 0;
       let b = -1;
@@ -222,16 +203,17 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
         owner[cur] = bA.length;
         sum += distance[cur]!; cnt++;
         if (distance[cur]! > mx) mx = distance[cur]!;
-        const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
-        const next = n0 === prev ? n1 : n0;
-        len += chord(prev, next);
+        const n0 = nbr[8 * cur]!;
+        const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
+        const next = e >>> 3, dout = e & 7;
+        len += chords[8 * din + dout]!;
         if (node[next] !== -1) {
           b = node[next]!;
-          len += step(cur, next) / 2;
+          len += STEP[dout]! / 2;
           break;
         }
         if (seen[next]) break; // cannot happen on a clean line; stop rather than loop
-        prev = cur; cur = next;
+        prev = cur; cur = next; din = dout;
       }
       if (b === -1) continue;
       bA.push(a); bB.push(b); bD.push(labels[u]!); bL.push(len); bS.push(sum); bP.push(cnt); bM.push(mx);
@@ -239,18 +221,21 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     }
   }
   // Rings: cycles of degree-2 pixels with no node.
-  for (const i of skelPixels) {
+  for (let t = 0; t < skelCount; t++) {
+    const i = skelPixels[t]!;
     if (seen[i] || deg[i] !== 2 || node[i] !== -1) continue;
-    let prev = nbr[8 * i + 1]!, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
+    // Entered from the second neighbour: the step in is the reverse of i's step to it.
+    const e1 = nbr[8 * i + 1]!;
+    let prev = e1 >>> 3, din = REVERSE[e1 & 7]!, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
     while (!seen[cur]) {
       seen[cur] = 1;
       owner[cur] = bA.length;
       sum += distance[cur]!; cnt++;
       if (distance[cur]! > mx) mx = distance[cur]!;
-      const n0 = nbr[8 * cur]!, n1 = nbr[8 * cur + 1]!;
-      const next = n0 === prev ? n1 : n0;
-      len += chord(prev, next);
-      prev = cur; cur = next;
+      const n0 = nbr[8 * cur]!;
+      const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
+      len += chords[8 * din + (e & 7)]!;
+      prev = cur; cur = e >>> 3; din = e & 7;
     }
     bA.push(-1); bB.push(-1); bD.push(labels[i]!); bL.push(len); bS.push(sum); bP.push(cnt); bM.push(mx);
   }

@@ -51,3 +51,8 @@ export interface SkeletonKernelExports {
   thinByDistance(distance: number, counts: number, levels: number): number;
   distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
 }
+
+// Skeleton pixel adjacency (assembly/skeleton-graph.ts).
+export interface SkeletonGraphKernelExports {
+  skeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
+}

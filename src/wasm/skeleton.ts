@@ -1,8 +1,8 @@
 // The TS side of the skeleton kernels: a workspace sized for one frame shape that thins both
 // phases and computes the other-phase distance (local half-width) of every pixel.
 import { kernels } from "./instance";
-import { wasmAlloc, wasmFree, viewU8, viewF32 } from "./heap";
-import type { KernelExports, SkeletonKernelExports } from "./exports";
+import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32 } from "./heap";
+import type { KernelExports, SkeletonKernelExports, SkeletonGraphKernelExports } from "./exports";
 
 /** Which phase is 8-connected: 0 up (down 4), 1 down (up 4), 2 saddle decisions per quad. */
 export type ConnectivityRule = 0 | 1 | 2;
@@ -49,6 +49,8 @@ export class SkeletonWorkspace {
   private readonly counts: number;
   private readonly levels: number;
   private disposed = false;
+  private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
+  private lastGeometry: ThinGeometry | undefined;
 
   constructor(width: number, height: number) {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
@@ -94,13 +96,29 @@ export class SkeletonWorkspace {
       ? k.thinByDistance(this.dist, this.counts, this.levels)
       : k.thinPhase(1) + k.thinPhase(0);
     k.thinFinish(n);
+    this.lastGeometry = geometry;
     return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n), blocksLeft };
+  }
+
+  /**
+   * Adjacency of the skeleton of the last `run` (as skeletonNeighbours would give it for that
+   * skeleton, without copying the frame in again). Views: valid until the next call.
+   */
+  neighbours(): SkeletonNeighbours {
+    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
+    const g = this.lastGeometry;
+    if (!g) throw new Error("domtopo: SkeletonWorkspace.neighbours() needs a run first");
+    const n = this.width * this.height;
+    this.adjacencyBuffers ??= { deg: wasmAlloc(n), list: wasmAlloc(4 * n), nbr: wasmAlloc(32 * n) };
+    const a = this.adjacencyBuffers;
+    return adjacencyOf(this.width, this.height, g, this.ph, this.sk, this.qm, a.deg, a.list, a.nbr);
   }
 
   /** Returns the workspace's memory to the heap. */
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
+    if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts]) wasmFree(p);
   }
 }
@@ -119,4 +137,56 @@ export function thinPhases(
   } finally {
     ws.dispose();
   }
+}
+
+/** Skeleton pixel adjacency of one frame. Views into Wasm memory: valid until the next call. */
+export interface SkeletonNeighbours {
+  /** Skeleton pixels in raster order (the first `count` entries). */
+  list: Int32Array;
+  count: number;
+  /** Number of skeleton neighbours of each pixel (0 off the skeleton). */
+  degree: Uint8Array;
+  /** For pixel i: 8 j + direction (0..7 = E, N, W, S, NE, NW, SW, SE) at [8 i, 8 i + degree[i]). */
+  neighbours: Int32Array;
+}
+
+let adjacency: { n: number; ph: number; sk: number; qm: number; deg: number; list: number; nbr: number } | undefined;
+
+/**
+ * Skeleton neighbours of every skeleton pixel (same phase; diagonals as the phase is connected).
+ * Memory for one frame size is kept between calls (a movie reuses it).
+ */
+export function skeletonNeighbours(
+  skeleton: Uint8Array, phase: Uint8Array, width: number, height: number, geometry: ThinGeometry,
+): SkeletonNeighbours {
+  const n = width * height;
+  if (skeleton.length !== n || phase.length !== n) {
+    throw new RangeError(`domtopo: skeleton and phase need ${n} pixels, got ${skeleton.length} and ${phase.length}`);
+  }
+  if (geometry.rule === 2 && (!geometry.quads || geometry.quads.length !== n)) {
+    throw new RangeError(`domtopo: the saddle rule needs ${n} quad decisions, got ${geometry.quads?.length ?? 0}`);
+  }
+  if (!adjacency || adjacency.n !== n) {
+    if (adjacency) for (const p of [adjacency.ph, adjacency.sk, adjacency.qm, adjacency.deg, adjacency.list, adjacency.nbr]) wasmFree(p);
+    adjacency = { n, ph: wasmAlloc(n), sk: wasmAlloc(n), qm: wasmAlloc(n), deg: wasmAlloc(n), list: wasmAlloc(4 * n), nbr: wasmAlloc(32 * n) };
+  }
+  const a = adjacency;
+  const ph = viewU8(a.ph, n);
+  for (let i = 0; i < n; i++) ph[i] = phase[i]! === 0 ? 0 : 1;
+  viewU8(a.sk, n).set(skeleton);
+  if (geometry.rule === 2) viewU8(a.qm, n).set(geometry.quads!);
+  return adjacencyOf(width, height, geometry, a.ph, a.sk, a.qm, a.deg, a.list, a.nbr);
+}
+
+/** Runs the adjacency kernel on buffers already in Wasm memory. */
+function adjacencyOf(
+  width: number, height: number, geometry: ThinGeometry,
+  ph: number, sk: number, qm: number, deg: number, list: number, nbr: number,
+): SkeletonNeighbours {
+  const k = kernels() as K & SkeletonGraphKernelExports;
+  const n = width * height;
+  k.setGeometry(width, height, geometry.periodicX ? 1 : 0, geometry.periodicY ? 1 : 0, geometry.rule);
+  k.setBuffers(ph, 0, 0, qm);
+  const count = k.skeletonNeighbours(sk, nbr, deg, list);
+  return { list: viewI32(list, count), count, degree: viewU8(deg, n), neighbours: viewI32(nbr, 8 * n) };
 }
