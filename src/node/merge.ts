@@ -46,16 +46,27 @@ export function shardFolders(args: string[]): string[] {
   for (const arg of args) {
     const dir = resolve(arg);
     if (!existsSync(dir) || !statSync(dir).isDirectory()) throw new Error(`${arg}: no such folder`);
-    if (existsSync(join(dir, "run.json")) || existsSync(join(dir, "run.progress.json"))) { out.push(dir); continue; }
     const inner = readdirSync(dir).filter((n) => /^shard-\d+-of-\d+$/.test(n)).sort((a, b) => {
       const [, ka, na] = /^shard-(\d+)-of-(\d+)$/.exec(a)!.map(Number);
       const [, kb, nb] = /^shard-(\d+)-of-(\d+)$/.exec(b)!.map(Number);
       return na! - nb! || ka! - kb!;
     });
+    // A run folder that holds its shards (and maybe their merge) stands for the shards.
+    if (inner.length === 0 || isShard(dir)) {
+      if (existsSync(join(dir, "run.json")) || existsSync(join(dir, "run.progress.json"))) { out.push(dir); continue; }
+    }
     if (inner.length === 0) throw new Error(`${arg}: neither a shard folder (no run.json) nor a folder of shard-K-of-N folders`);
     out.push(...inner.map((n) => join(dir, n)));
   }
   return out;
+}
+
+function isShard(dir: string): boolean {
+  try {
+    return Boolean(JSON.parse(readFileSync(join(dir, "run.json"), "utf8")).shard);
+  } catch {
+    return existsSync(join(dir, "run.progress.json"));
+  }
 }
 
 function readRecord(folder: string): ShardRecord {
