@@ -1,5 +1,5 @@
 import { describe, it, expect, beforeAll } from "vitest";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { runAnalysis, type RunConfig } from "../../src/node/run";
@@ -86,5 +86,74 @@ describe("sharded runs merged", () => {
       expect(JSON.parse(read(merged, "run.json")).shards.map((s: { start: number }) => s.start)).toEqual(
         n === 3 ? [0, 7, 14] : [0, 5, 10, 15]);
     }
+  });
+});
+
+describe("merge refuses shards that do not fit together", () => {
+  const base = () => ({ inputs: [join(dir, "movie.npy")], options: { frame: { threshold: 0.5 } }, workers: 1, tracking: {} });
+  const shard = async (name: string, index: number, count: number, change: (c: ReturnType<typeof base>) => void = () => {}) => {
+    const c = base();
+    change(c);
+    const out = join(dir, "refuse", name);
+    await runAnalysis({ ...c, out, shard: { index, count } });
+    return out;
+  };
+  let s0 = "", s1 = "", s2 = "", s3 = "";
+  beforeAll(async () => {
+    [s0, s1, s2, s3] = await Promise.all([0, 1, 2, 3].map((k) => shard(`run/shard-${k}-of-4`, k, 4)));
+  });
+  const merge = (shards: string[]) => () => mergeShards({ shards, out: join(dir, "refuse", "merged") });
+
+  it("names the entry of the run records that differs", async () => {
+    const other = await shard("other-threshold", 1, 4, (c) => { c.options.frame.threshold = 0.25; });
+    expect(merge([s0, other, s2, s3])).toThrow(/shards disagree on options\.frame\.threshold: .* has 0\.5, .* has 0\.25/);
+    const untracked = await shard("untracked", 2, 4, (c) => { delete (c as { tracking?: object }).tracking; });
+    expect(merge([s0, s1, untracked, s3])).toThrow(/shards disagree on .*tracking/);
+  });
+
+  it("names a different input hash", async () => {
+    const copy = join(dir, "refuse", "movie-b.npy");
+    writeFileSync(copy, readFileSync(join(dir, "movie.npy")));
+    const moved = await shard("other-input", 3, 4, (c) => { c.inputs = [copy]; });
+    expect(merge([s0, s1, s2, moved])).toThrow(/shards disagree on inputs\[0\]\.path/);
+  });
+
+  it("names missing, repeated and overlapping frames", async () => {
+    expect(merge([s0, s1, s3])).toThrow("shards do not cover the 16 frames exactly once: frames 8 to 11 in no shard (missing shard 2 of 4)");
+    expect(merge([s0, s1, s2])).toThrow(/frames 12 to 15 in no shard \(missing shard 3 of 4\)/);
+    expect(merge([s0, s1, s1, s2, s3])).toThrow(/frames 4 to 7 given twice: shard 1 of 4 .* and shard 1 of 4/);
+    const half = await shard("half/shard-0-of-2", 0, 2);
+    expect(merge([s0, half, s2, s3])).toThrow(/shard 0 of 4 .* and shard 0 of 2 .* overlap on frames 0 to 3$/);
+    expect(merge([half, s1, s2, s3])).toThrow(/shard 0 of 2 .* and shard 1 of 4 .* overlap on frames 4 to 7$/);
+    expect(merge([join(dir, "refuse", "nowhere")])).toThrow(/no such folder/);
+  });
+
+  it("names an unfinished shard and writes nothing", async () => {
+    const c = base();
+    const out = join(dir, "refuse", "unfinished");
+    await runAnalysis({ ...c, out, shard: { index: 3, count: 4 }, stopAfter: 1, checkpointEvery: 1 });
+    expect(merge([s0, s1, s2, out])).toThrow(/did not finish .* analyze --resume/);
+    expect(existsSync(join(dir, "refuse", "merged"))).toBe(false);
+    // Continued, it merges to the same tables as the shard that ran through.
+    await runAnalysis({ ...c, out, shard: { index: 3, count: 4 }, resume: true });
+    mergeShards({ shards: [s0, s1, s2, out], out: join(dir, "refuse", "resumed") });
+    mergeShards({ shards: [s0, s1, s2, s3], out: join(dir, "refuse", "straight") });
+    for (const f of ["frames.csv", "frames.ndjson", "tracks.csv"]) {
+      expect(read(join(dir, "refuse", "resumed"), f)).toBe(read(join(dir, "refuse", "straight"), f));
+    }
+  });
+
+  it("takes a run folder for its shard-K-of-N folders, and merges into it", () => {
+    const run = join(dir, "refuse", "run");
+    const s = mergeShards({ shards: [run], out: run });
+    expect(s.shards.map((x) => x.start)).toEqual([0, 4, 8, 12]);
+    expect(mergeShards({ shards: [run], out: run }).frames).toBe(16); // again, with the merged run.json there
+    // The shard's own tables start over at its first frame; the merged ones do not.
+    const firstRow = (d: string) => read(d, "frames.csv").split("\n")[1]!;
+    expect(firstRow(s2)).toMatch(/,{14}$/);
+    const merged = read(run, "frames.csv").split("\n")[9]!;
+    expect(merged.startsWith("8,")).toBe(true);
+    expect(merged).not.toMatch(/,,$/);
+    expect(read(s2, "tracks.csv")).toMatch(/first-frame/);
   });
 });
