@@ -13,7 +13,6 @@ import { SHARD_FILES } from "./run";
 import { decodeBoundaryFrame, type FrameRange } from "./shard";
 import { csvLine } from "../topology/rows";
 import { DomainTracker, eventRow, trackHeader, trackRows, type FrameEvents } from "../sequence/tracking";
-import { VERSION } from "../version";
 
 export interface MergeConfig {
   /** Shard folders (each with the run.json of a finished shard), or folders holding shard-K-of-N folders. */
@@ -339,9 +338,10 @@ export function mergeShards(config: MergeConfig): MergeSummary {
   const { tool, version, command, ...rest } = agreed;
   writeFileAtomic(join(out, "run.json"), JSON.stringify({
     tool, version, command, finished: new Date().toISOString(), ...rest, failures: failed,
+    // Seconds of the shards summed (not wall time: shards may run at once), and of the merge.
     timings: {
-      seconds: shards.reduce((a, s) => a + ((s.record.timings as { seconds?: number } | undefined)?.seconds ?? 0), 0),
-      mergeSeconds: seconds, mergedBy: VERSION,
+      shardSeconds: shards.reduce((a, s) => a + ((s.record.timings as { seconds?: number } | undefined)?.seconds ?? 0), 0),
+      mergeSeconds: seconds,
     },
     shards: shards.map((s) => ({
       folder: s.folder, index: s.record.shard.index, count: s.record.shard.count,

@@ -157,3 +157,26 @@ describe("merge refuses shards that do not fit together", () => {
     expect(read(s2, "tracks.csv")).toMatch(/first-frame/);
   });
 });
+
+describe("failed frames at a cut", () => {
+  it("merge to the tables of an unsharded run that skipped the same frames (first of a shard, last of the one before, a whole shard)", async () => {
+    const { encodePng } = await import("../../src/io/png");
+    const { shardMovieFrame } = await import("./movies");
+    const { mkdirSync } = await import("node:fs");
+    for (const bad of [[6], [5, 6], [3], [3, 4, 5]]) { // the last: a shard of failed frames only
+      const folder = join(dir, `pngs-${bad.join("-")}`);
+      mkdirSync(folder, { recursive: true });
+      for (let k = 0; k < 12; k++) {
+        const png = encodePng(shardMovieFrame(k));
+        // a damaged frame: the header is there, the data are cut off
+        writeFileSync(join(folder, `frame${k}.png`), bad.includes(k) ? png.subarray(0, 40) : png);
+      }
+      const config = { inputs: [folder], options: { frame: { threshold: 0.5 }, domains: true }, workers: 1, tracking: {} };
+      const ref = await whole(config, `failed-${bad.join("-")}`);
+      expect(JSON.parse(read(ref, "run.json")).failures.map((f: { frame: number }) => f.frame)).toEqual(bad);
+      const merged = await sharded(config, `failed-${bad.join("-")}`, 4); // shards 0-2, 3-5, 6-8, 9-11
+      for (const f of TABLES) expect(read(merged, f), `${f}, frames ${bad} failed`).toBe(read(ref, f));
+      expect(record(merged)).toEqual(record(ref));
+    }
+  });
+});
