@@ -24,7 +24,7 @@ describe("domtopo analyze --shard and domtopo merge", () => {
   it("writes RUN/shard-K-of-N for --shard K/N and for Slurm array tasks, and merges them to the unsharded tables", () => {
     const args = ["analyze", movie, "--threshold", "0.5", "--sweep=-7.5:7.5:1", "--field-unit", "mT", "--track", "--domains", "--workers", "1", "--quiet"];
     const runDir = join(dir, "run");
-    expect(run([...args, "--shard", "0/3", "--out", runDir]).code).toBe(0);
+    expect(run([...args, "--shard", "0/3", "--out", runDir, "--workers", "2"]).code).toBe(0); // threads in one shard
     const slurm = { SLURM_ARRAY_TASK_COUNT: "3", SLURM_ARRAY_TASK_MIN: "1" };
     expect(run([...args, "--shard", "slurm", "--out", runDir], { ...slurm, SLURM_ARRAY_TASK_ID: "2" }).code).toBe(0);
     expect(run([...args, "--shard", "slurm", "--out", runDir], { ...slurm, SLURM_ARRAY_TASK_ID: "3" }).code).toBe(0);
