@@ -24,6 +24,8 @@ import { DemoSpectra } from "./demo-spectra";
 import { runLoop, runForc, commitAll, LOOP_HELP, FORC_HELP } from "./loop";
 import { buildReport, runReport, REPORT_HELP } from "./report";
 import { fmt } from "./loop-tables";
+import { runMerge, MERGE_HELP } from "./merge";
+import { parseShard, shardFolderName, shardFromSlurm, shardRange, type ShardSpec } from "../node/shard";
 
 /** Exit codes: 0 done, 1 the run failed, 2 bad command line, 3 done but some frames failed. */
 export const EXIT = { ok: 0, failed: 1, usage: 2, someFramesFailed: 3 } as const;
@@ -50,6 +52,7 @@ Commands:
   loop <frames.csv>     loop metrics of a per-frame table (coercive field, remanence, area, ...)
   forc <frames.csv>     FORC distribution of reversal curves in a per-frame table
   report <run folder>   one self-contained HTML report of a run folder
+  merge <shards...>     merge the shards of one analyze --shard run into one run's tables
   help [command]        show help for a command
 
 Run 'domtopo <command> --help' for the options of a command.
@@ -86,6 +89,7 @@ ${FRAME_OPTIONS_HELP}`,
   loop: LOOP_HELP,
   forc: FORC_HELP,
   report: REPORT_HELP,
+  merge: MERGE_HELP,
   analyze: `Usage: domtopo analyze <frames...> [options]
 
 Analyzes every frame of the inputs, in order: PNG files (8/16-bit grey, colour reduced to luma),
@@ -111,6 +115,12 @@ Options:
                         for every N-th frame
   --spectra N           write DIR/spectra/frame-NNNNN.png (log power spectrum, centred, the ring
                         at q* marked) for every N-th frame
+  --shard K/N           analyze only shard K of N (K from 0 to N-1): N contiguous frame ranges
+                        as equal as possible; writes DIR/shard-K-of-N/ (tables, run.json with the
+                        range, with --track the cut's frames and tracker); 'domtopo merge' joins
+                        the shards. N may not exceed the frames
+  --shard slurm         the shard of this Slurm array task: K = SLURM_ARRAY_TASK_ID -
+                        SLURM_ARRAY_TASK_MIN, N = SLURM_ARRAY_TASK_COUNT (sbatch --array=0-3)
   --quiet               no progress and no summary
   --json                print the run summary as JSON on stdout
   -h, --help            this help
@@ -374,7 +384,7 @@ async function runAnalyze(argv: string[]): Promise<number> {
     spectrum: { type: "string" }, skeleton: { type: "string" }, track: { type: "boolean" },
     "max-displacement": { type: "string" }, overlays: { type: "string" }, spectra: { type: "string" }, crop: { type: "string" },
     background: { type: "string" }, "background-mode": { type: "string" }, flatten: { type: "string" },
-    smooth: { type: "string" },
+    smooth: { type: "string" }, shard: { type: "string" },
   });
   if (values.help) { process.stdout.write(HELP.analyze + "\n"); return EXIT.ok; }
   if (positionals.length === 0) throw new UsageError("analyze: expected at least one frame file, folder or pattern (see domtopo analyze --help)");
@@ -415,14 +425,17 @@ async function runAnalyze(argv: string[]): Promise<number> {
   }
   const outDir = values.out as string | undefined;
   if (!outDir) {
-    for (const flag of ["domains", "resume", "workers", "track", "overlays", "spectra"]) {
+    for (const flag of ["domains", "resume", "workers", "track", "overlays", "spectra", "shard"]) {
       if (values[flag] !== undefined) throw new UsageError(`--${flag} needs --out DIR`);
     }
     return analyzeToStdout(files, options, fields, quiet, preprocess, backgroundFile);
   }
-  const progress = new Progress(openFrameFiles(files).count, "analyze", process.stderr, !quiet);
+  const frameCount = openFrameFiles(files).count;
+  const shard = shardOption(values.shard as string | undefined, frameCount);
+  const runDir = shard ? join(outDir, shardFolderName(shard)) : outDir;
+  const progress = new Progress(shard ? shard.range.end - shard.range.start : frameCount, "analyze", process.stderr, !quiet);
   const summary = await runAnalysis({
-    inputs: files, out: outDir,
+    inputs: files, out: runDir, ...(shard ? { shard: { index: shard.index, count: shard.count }, range: shard.range } : {}),
     options: { frame: options, domains: Boolean(values.domains), ...(preprocess ? { preprocess } : {}) }, fields,
     ...(backgroundFile ? { backgroundFile } : {}),
     ...(values.track ? { tracking: { ...(maxDisplacement !== undefined ? { maxDisplacement } : {}) } } : {}),
@@ -437,9 +450,21 @@ async function runAnalyze(argv: string[]): Promise<number> {
   else if (!quiet) {
     process.stderr.write(`Analyzed ${summary.analyzed} of ${summary.frames} frames in ${summary.seconds.toFixed(1)} s ` +
       `(${summary.framesPerSecond.toFixed(1)} frames/s, ${summary.workers} worker${summary.workers === 1 ? "" : "s"})` +
-      `${summary.resumedAt ? `, resumed at frame ${summary.resumedAt}` : ""}; tables in ${resolve(outDir)}\n`);
+      `${summary.resumedAt && summary.resumedAt !== summary.range.start ? `, resumed at frame ${summary.resumedAt}` : ""}` +
+      `${shard ? ` (shard ${shard.index} of ${shard.count}: frames ${shard.range.start} to ${shard.range.end - 1})` : ""}; tables in ${resolve(runDir)}\n`);
   }
   return summary.failed.length > 0 ? EXIT.someFramesFailed : EXIT.ok;
+}
+
+/** The shard of `--shard K/N` or `--shard slurm`, with its frames; bad values are usage errors. */
+function shardOption(text: string | undefined, frames: number): (ShardSpec & { range: { start: number; end: number } }) | undefined {
+  if (text === undefined) return undefined;
+  try {
+    const spec = text.trim().toLowerCase() === "slurm" ? shardFromSlurm(process.env) : parseShard(text);
+    return { ...spec, range: shardRange(spec.index, spec.count, frames) };
+  } catch (err) {
+    throw new UsageError((err as Error).message.startsWith("--shard") ? (err as Error).message : `--shard ${text}: ${(err as Error).message}`);
+  }
 }
 
 function preprocessOptions(values: Values): Omit<PreprocessOptions, "boundary"> | undefined {
@@ -526,8 +551,10 @@ export async function main(argv: string[]): Promise<number> {
         return await runForc(rest);
       case "report":
         return await runReport(rest);
+      case "merge":
+        return await runMerge(rest);
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(command)} (commands: demo, analyze, loop, forc, report, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(command)} (commands: demo, analyze, loop, forc, report, merge, help)`);
     }
   } catch (err) {
     if (err instanceof UsageError) {

@@ -2,6 +2,9 @@
 // rows written in frame order as CSV and NDJSON, a JSON run record (inputs with sizes and content
 // hashes, options, version, timings), checkpoints so that `--resume` continues an interrupted run
 // without losing or duplicating rows, and failed frames reported by index and file.
+// A run may cover one contiguous range of the frames (a shard, see shard.ts and merge.ts): then
+// its record names the range, and with tracking it also leaves the first and last frame's labels
+// and domain columns and its tracker at the end, for merging the shards exactly.
 import { createHash } from "node:crypto";
 import { Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
@@ -18,7 +21,8 @@ import { csvLine, domainHeader, type Cell } from "../topology/rows";
 import { writeFileAtomic } from "./atomic";
 import { VERSION } from "../version";
 import type { FieldValues } from "../io/fields";
-import { createTracker, eventRow, trackHeader, trackRows, type DomainTracker, type TrackingOptions } from "../sequence/tracking";
+import { DomainTracker, createTracker, eventRow, trackHeader, trackRows, type TrackingOptions } from "../sequence/tracking";
+import { encodeBoundaryFrame, shardRange, type BoundaryFrame, type FrameRange, type ShardSpec } from "./shard";
 
 export interface RunConfig {
   /** Frame files, folders or patterns (see listFrameFiles). */
@@ -50,6 +54,13 @@ export interface RunConfig {
   overlay?: { every: number; scale: number };
   /** Write DIR/spectra/frame-NNNNN.png (log power spectrum, ring marked) for every `every`-th frame. */
   spectra?: { every: number };
+  /**
+   * Analyze only frames [start, end) of the movie (`end` exclusive), as one shard of a sharded
+   * run; frame numbers, fields and sources stay those of the whole movie. @default every frame
+   */
+  range?: FrameRange;
+  /** This run is shard `index` of `count` (0-based); sets `range` by `shardRange` unless given. */
+  shard?: ShardSpec;
 }
 
 export interface RunSummary {
@@ -61,7 +72,19 @@ export interface RunSummary {
   workers: number;
   resumedAt: number;
   completed: boolean;
+  /** Frames [start, end) this run covered (the whole movie unless sharded). */
+  range: FrameRange;
 }
+
+/** Files a sharded run with tracking leaves for the merge (beside its tables). */
+export const SHARD_FILES = {
+  /** Label image and domain columns of the shard's first analyzed frame. */
+  first: "shard.first-frame.bin",
+  /** The same of its last analyzed frame. */
+  last: "shard.last-frame.bin",
+  /** DomainTracker.snapshot() after its last frame (its tracker began fresh on its first frame). */
+  tracker: "shard.tracker.bin",
+} as const;
 
 const OUTPUTS = ["frames.csv", "frames.ndjson", "domains.csv"] as const;
 type OutputName = (typeof OUTPUTS)[number];
@@ -139,6 +162,8 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   if (config.fields && config.fields.values.length !== total) {
     throw new Error(`expected ${total} field values for ${total} frames, got ${config.fields.values.length} from ${config.fields.source}`);
   }
+  const sharded = config.range !== undefined || config.shard !== undefined;
+  const range = checkRange(config, total);
   const out = resolve(config.out);
   mkdirSync(out, { recursive: true });
   const inputs = files.map((path) => ({ path: resolve(path), bytes: statSync(path).size, sha256: fileSha256(path) }));
@@ -152,6 +177,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: jobOptions,
     tracking: config.tracking ?? null, fields: config.fields ? Array.from(config.fields.values) : null,
     background: config.backgroundFile ? fileSha256(config.backgroundFile) : null,
+    ...(sharded ? { range, shard: config.shard ?? null } : {}),
   })).digest("hex");
   const progressPath = join(out, "run.progress.json");
   const trackerPath = join(out, "run.tracker.bin");
@@ -171,7 +197,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   }
   const failed: RunSummary["failed"] = checkpoint ? [...checkpoint.failed] : [];
   let headerDone = checkpoint?.headerDone ?? false;
-  const startAt = checkpoint?.framesDone ?? 0;
+  const startAt = checkpoint?.framesDone ?? range.start;
   let done = startAt;
   const fieldUnit = config.fields?.unit || "";
   const fieldName = config.fields ? `field${fieldUnit ? "_" + fieldUnit.replace(/[^A-Za-z0-9µ]+/g, "") : ""}` : undefined;
@@ -190,16 +216,19 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     }
     return tracker;
   };
+  // The shard's last analyzed frame so far, written at each checkpoint (so a resumed shard has it).
+  let lastBoundary: BoundaryFrame | undefined;
   const saveCheckpoint = () => {
     const bytes: Record<string, number> = {};
     for (const name of wanted) { files_[name]!.sync(); bytes[name] = files_[name]!.size(); }
     if (tracker) writeFileAtomic(trackerPath, tracker.snapshot());
+    if (lastBoundary) { writeFileAtomic(join(out, SHARD_FILES.last), encodeBoundaryFrame(lastBoundary)); lastBoundary = undefined; }
     const cp: Checkpoint = { signature, framesDone: done, bytes, failed, headerDone };
     writeFileAtomic(progressPath, JSON.stringify(cp) + "\n");
   };
 
-  const workers = Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, total - startAt)));
-  const end = config.stopAfter !== undefined ? Math.min(total, startAt + config.stopAfter) : total;
+  const workers = Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, range.end - startAt)));
+  const end = config.stopAfter !== undefined ? Math.min(range.end, startAt + config.stopAfter) : range.end;
   function* jobs(): Generator<FileFrameJob> {
     for (let index = startAt; index < end; index++) {
       yield { files, index, options: jobOptions, ...(config.backgroundFile ? { backgroundFile: config.backgroundFile } : {}) };
@@ -225,9 +254,13 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         const extra = config.onResult?.(r) ?? [];
         if (config.tracking && r.tracking) {
           const t = r.tracking;
-          const events = trackerFor(r.width, r.height).push(t.labels, t, {
-            frame: index, ...(config.fields ? { field: config.fields.values[index]! } : {}),
-          });
+          const tk = trackerFor(r.width, r.height);
+          const info = { frame: index, ...(config.fields ? { field: config.fields.values[index]! } : {}) };
+          if (sharded) {
+            lastBoundary = { ...info, width: r.width, height: r.height, labels: t.labels, count: t.count, phase: t.phase, area: t.area, centroidX: t.centroidX, centroidY: t.centroidY };
+            if (tk.frameCount === 0) writeFileAtomic(join(out, SHARD_FILES.first), encodeBoundaryFrame(lastBoundary));
+          }
+          const events = tk.push(t.labels, t, info);
           extra.push(...eventRow(events));
         }
         if (r.spectrumPng) {
@@ -249,26 +282,32 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         }
       }
       done = index + 1;
-      config.onProgress?.(done, total);
+      config.onProgress?.(done - range.start, range.end - range.start);
       if (++sinceCheckpoint >= every) { saveCheckpoint(); sinceCheckpoint = 0; }
     }
     saveCheckpoint();
   } finally {
     for (const name of wanted) files_[name]!.close();
   }
-  const completed = done === total;
+  const completed = done === range.end;
   const seconds = (performance.now() - started) / 1000;
   const analyzed = done - startAt - failed.filter((f) => f.frame >= startAt).length;
   const summary: RunSummary = {
     frames: total, analyzed, failed, seconds, framesPerSecond: (done - startAt) / Math.max(seconds, 1e-9),
-    workers, resumedAt: startAt, completed,
+    workers, resumedAt: startAt, completed, range,
   };
   if (completed) {
     for (const name of wanted) renameSync(join(out, `${name}.partial`), join(out, name));
     if (config.tracking) {
       const unit = config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px");
+      // A resumed run with no frame left to analyze has its tracker only in the checkpoint.
+      if (!tracker && existsSync(trackerPath)) tracker = DomainTracker.fromSnapshot(readFileSync(trackerPath));
       const rows = tracker ? trackRows(tracker.trackSummary()) : [];
       writeFileAtomic(join(out, "tracks.csv"), csvLine(trackHeader(unit)) + rows.map((r) => csvLine(r)).join(""));
+      if (sharded) {
+        if (tracker) writeFileAtomic(join(out, SHARD_FILES.tracker), tracker.snapshot());
+        else for (const f of Object.values(SHARD_FILES)) if (existsSync(join(out, f))) unlinkSync(join(out, f));
+      }
       if (existsSync(trackerPath)) unlinkSync(trackerPath);
     }
     writeFileAtomic(join(out, "run.json"), JSON.stringify({
@@ -279,8 +318,30 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
       outputs: [...wanted, ...(config.tracking ? ["tracks.csv"] : []), ...(config.overlay ? ["overlays/"] : []), ...(config.spectra ? ["spectra/"] : [])],
       tracking: config.tracking ?? null, failures: failed,
       timings: { seconds, framesPerSecond: summary.framesPerSecond, workers, resumedAtFrame: startAt },
+      ...(sharded ? { shard: shardRecord(config.shard, range, Boolean(config.tracking && tracker)) } : {}),
     }, null, 2) + "\n");
     unlinkSync(progressPath);
   }
   return summary;
+}
+
+function checkRange(config: RunConfig, total: number): FrameRange {
+  const fromShard = config.shard ? shardRange(config.shard.index, config.shard.count, total) : undefined;
+  const range = config.range ?? fromShard ?? { start: 0, end: total };
+  const { start, end } = range;
+  if (!Number.isInteger(start) || !Number.isInteger(end) || start < 0 || end > total || start >= end) {
+    throw new Error(`frame range ${start}..${end}: expected whole numbers with 0 <= start < end <= ${total} (end exclusive) for ${total} frames`);
+  }
+  if (fromShard && (fromShard.start !== start || fromShard.end !== end)) {
+    throw new Error(`frame range ${start}..${end}: shard ${config.shard!.index} of ${config.shard!.count} covers frames ${fromShard.start}..${fromShard.end}`);
+  }
+  return { start, end };
+}
+
+/** The run record's `shard` entry: which shard, its frames [start, end), the files for the merge. */
+function shardRecord(shard: ShardSpec | undefined, range: FrameRange, tracked: boolean) {
+  return {
+    index: shard?.index ?? null, count: shard?.count ?? null, start: range.start, end: range.end,
+    files: tracked ? { ...SHARD_FILES } : null,
+  };
 }

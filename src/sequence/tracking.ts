@@ -328,6 +328,17 @@ export class DomainTracker {
     return out;
   }
 
+  /** A tracker made from a `snapshot` alone (its shape and options are in it). */
+  static fromSnapshot(bytes: Uint8Array): DomainTracker {
+    const n = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength).getUint32(0, true);
+    const head = JSON.parse(new TextDecoder().decode(bytes.subarray(4, 4 + n))) as {
+      width: number; height: number; options: ResolvedTrackingOptions;
+    };
+    const t = new DomainTracker(head.width, head.height, head.options);
+    t.restore(bytes);
+    return t;
+  }
+
   /** Restores a `snapshot` of a tracker of the same shape and options. */
   restore(bytes: Uint8Array): void {
     const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -580,6 +591,79 @@ export class DomainTracker {
     for (const [b, from] of [...byCur].sort((p, q) => p[0] - q[0])) {
       events.merges.push({ phase: curPhase[b] === 1 ? "up" : "down", trackId: curTrack[b]!, from: from.sort((p, q) => p - q) });
     }
+  }
+
+  /**
+   * Continues this tracker with `later`, a tracker of the same shape and options that began
+   * fresh on `first` (the frame after this tracker's last one) and went on from there, as the
+   * shards of one movie do. Returns the events of `first` as one unbroken tracker would have
+   * given them, and leaves this tracker exactly as if it had pushed every frame `later` did.
+   *
+   * Why this is exact: which previous domain hands its id to which current one depends only on
+   * the two frames (areas, overlaps, distances), never on the id values, and new tracks open in
+   * label order within a frame. So `later`'s tracks 1..K (K = domains of `first`) are the
+   * domains of `first` in label order and take the ids this tracker gives them when it pushes
+   * `first`; its tracks past K are born after `first` and take the next free ids in the same
+   * order. A continued track adds `later`'s lifetime less the frame counted twice (`first`),
+   * keeps the larger area and takes its end from `later`.
+   */
+  append(later: DomainTracker, first: { labels: Int32Array; domains: TrackedDomains; info: FrameInfo }): FrameEvents {
+    if (later.width !== this.width || later.height !== this.height || JSON.stringify(later.options) !== JSON.stringify(this.options)) {
+      throw new Error(`tracker append: expected a tracker of ${this.width} x ${this.height} with the same options, got ${later.width} x ${later.height}${JSON.stringify(later.options) !== JSON.stringify(this.options) ? " with other options" : ""}`);
+    }
+    const K = first.domains.count;
+    const lt = later.tracks;
+    if (later.frames === 0) throw new Error("tracker append: the later tracker has seen no frame");
+    const firstFrame = first.info.frame;
+    for (let i = 0; i < K; i++) {
+      if (i >= lt.count || lt.bornBy[i] !== 0 || lt.birthFrame[i] !== firstFrame) {
+        throw new Error(`tracker append: the later tracker did not begin on frame ${firstFrame} with ${K} domains`);
+      }
+    }
+    if (K < lt.count && lt.bornBy[K] === 0 && lt.birthFrame[K] === firstFrame) {
+      throw new Error(`tracker append: the later tracker began on frame ${firstFrame} with more than ${K} domains`);
+    }
+    const framesBefore = this.frames;
+    const events = this.push(first.labels, first.domains, first.info);
+    const tr = this.tracks;
+    const opened = tr.count;
+    // Global id of each of later's tracks (entry i for its track i + 1).
+    const ids = new Int32Array(lt.count);
+    for (let i = 0; i < K; i++) ids[i] = events.trackIds[i]!;
+    for (let i = K; i < lt.count; i++) ids[i] = opened + (i - K) + 1;
+    for (let i = 0; i < K; i++) {
+      const g = ids[i]! - 1;
+      tr.lifetime[g] = tr.lifetime[g]! + lt.lifetime[i]! - 1;
+      tr.endFrame[g] = lt.endFrame[i]!;
+      tr.endField[g] = lt.endField[i]!;
+      tr.goneFrame[g] = lt.goneFrame[i]!;
+      tr.goneField[g] = lt.goneField[i]!;
+      tr.endedBy[g] = lt.endedBy[i]!;
+      if (lt.maxArea[i]! > tr.maxArea[g]!) tr.maxArea[g] = lt.maxArea[i]!;
+    }
+    for (let i = K; i < lt.count; i++) {
+      const g = tr.open(lt.phase[i]!, lt.bornBy[i]!, lt.birthFrame[i]!, lt.birthField[i]!) - 1;
+      tr.endedBy[g] = lt.endedBy[i]!;
+      tr.lifetime[g] = lt.lifetime[i]!;
+      tr.endFrame[g] = lt.endFrame[i]!;
+      tr.endField[g] = lt.endField[i]!;
+      tr.goneFrame[g] = lt.goneFrame[i]!;
+      tr.goneField[g] = lt.goneField[i]!;
+      tr.maxArea[g] = lt.maxArea[i]!;
+    }
+    // The previous frame is now later's last one, with global ids.
+    const Kp = later.prevCount;
+    this.prevLabels.set(later.prevLabels);
+    this.prevCount = Kp;
+    this.prevPhase = later.prevPhase.slice(0, Kp + 1);
+    this.prevArea = later.prevArea.slice(0, Kp + 1);
+    this.prevX = later.prevX.slice(0, Kp + 1);
+    this.prevY = later.prevY.slice(0, Kp + 1);
+    this.prevTrack = new Int32Array(Kp + 1);
+    for (let d = 1; d <= Kp; d++) this.prevTrack[d] = ids[later.prevTrack[d]! - 1]!;
+    this.frames = framesBefore + later.frames;
+    this.lastFrame = later.lastFrame;
+    return events;
   }
 
   /** One row per track opened so far, in track-id order. */
