@@ -13,6 +13,7 @@ import {
   readSync, renameSync, statSync, unlinkSync, writeSync,
 } from "node:fs";
 import { join, resolve } from "node:path";
+import { fileURLToPath } from "node:url";
 import { openFrameFiles, listFrameFiles } from "../io/node-source";
 import { runOrdered, inThreadWorker, type PoolWorker } from "../sequence/pool";
 import type { FrameJobOptions, FrameJobResult } from "../sequence/job";
@@ -227,7 +228,12 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     writeFileAtomic(progressPath, JSON.stringify(cp) + "\n");
   };
 
-  const workers = Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, range.end - startAt)));
+  // Worker threads run the built dist/worker.js; from the sources (tests) there is none: run in
+  // this thread then.
+  const threadsAvailable = existsSync(fileURLToPath(new URL("./worker.js", import.meta.url)));
+  const workers = threadsAvailable
+    ? Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, range.end - startAt)))
+    : 1;
   const end = config.stopAfter !== undefined ? Math.min(range.end, startAt + config.stopAfter) : range.end;
   function* jobs(): Generator<FileFrameJob> {
     for (let index = startAt; index < end; index++) {

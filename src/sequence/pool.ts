@@ -66,10 +66,16 @@ export async function* runOrdered<J, R>(
   let nextOut = 0; // next outcome to deliver
   let exhausted = false;
   let closing = false;
+  // A slot whose workers die this many times in a row without finishing a job is given up, and
+  // when every slot is given up the remaining jobs fail with the last error (no respawn loop).
+  const MAX_DEATHS = 3;
+  const deaths = new Array<number>(count).fill(0);
+  let lastDeath: Error | undefined;
   let wake: (() => void) | undefined;
   const notify = () => { const w = wake; wake = undefined; w?.(); };
 
   const finish = (slot: number, outcome: PoolOutcome<J, R>) => {
+    deaths[slot] = 0;
     busy.delete(slot);
     done.set(outcome.index, outcome);
     idle.push(slot);
@@ -96,8 +102,11 @@ export async function* runOrdered<J, R>(
         busy.delete(slot);
         done.set(current.index, { index: current.index, job: current.job, error: err });
       }
-      start(slot); // a fresh worker takes the slot
-      idle.push(slot);
+      lastDeath = err;
+      if (++deaths[slot]! < MAX_DEATHS) {
+        start(slot); // a fresh worker takes the slot
+        idle.push(slot);
+      }
       notify();
     });
   };
@@ -105,6 +114,16 @@ export async function* runOrdered<J, R>(
   for (let s = 0; s < count; s++) { start(s); idle.push(s); }
 
   const dispatch = async () => {
+    if (deaths.every((d) => d >= MAX_DEATHS) && busy.size === 0) {
+      // Every worker keeps dying: fail what is left instead of spawning forever.
+      while (!exhausted && nextIndex - nextOut < maxInFlight) {
+        const step = await iterator.next();
+        if (step.done) { exhausted = true; break; }
+        const index = nextIndex++;
+        done.set(index, { index, job: step.value, error: new Error(`every worker failed: ${lastDeath?.message ?? "unknown error"}`) });
+      }
+      return;
+    }
     while (!exhausted && idle.length > 0 && nextIndex - nextOut < maxInFlight && !options.signal?.aborted) {
       const step = await iterator.next();
       if (step.done) { exhausted = true; break; }

@@ -84,3 +84,21 @@ describe("the ordered worker pool", () => {
       .rejects.toThrow("workers: expected a whole number >= 1, got 0");
   });
 });
+
+describe("workers that cannot start", () => {
+  it("gives up after repeated deaths and fails the remaining jobs instead of respawning forever", async () => {
+    let spawned = 0;
+    const spawn = (): PoolWorker => {
+      spawned++;
+      let onErr: (e: Error) => void = () => {};
+      setTimeout(() => onErr(new Error("cannot find module worker.js")), 1);
+      return { post() {}, onMessage() {}, onError(h) { onErr = h; }, terminate() {} };
+    };
+    const out: Array<{ index: number; error?: Error }> = [];
+    for await (const o of runOrdered<number, number>(Array.from({ length: 20 }, (_, i) => i), spawn, { workers: 2 })) out.push(o);
+    expect(out).toHaveLength(20);
+    expect(out.every((o) => o.error !== undefined)).toBe(true);
+    expect(out[19]!.error!.message).toMatch(/cannot find module worker\.js/);
+    expect(spawned).toBeLessThanOrEqual(6);
+  });
+});
