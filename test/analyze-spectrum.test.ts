@@ -37,3 +37,22 @@ describe("the spectrum in analyzeFrame", () => {
       .toThrow("options.spectrum.pixelSize: set it on the frame options (options.pixelSize)");
   });
 });
+
+describe("periods outside the search", () => {
+  it("never reports a period beyond the searched range, saying why instead", async () => {
+    const { hysteresisDemo } = await import("../src/demo/hysteresis");
+    const demo = hysteresisDemo();
+    let seen = 0, undefinedWithReason = 0;
+    for (let k = 0; k < demo.frames.length; k += 7) {
+      const f = demo.frame(k);
+      const r = analyzeFrame(f, { threshold: 127.5, skeleton: "off" });
+      const s = r.spectrum!;
+      seen++;
+      if (s.period === undefined) { expect(s.reason).toBeTruthy(); undefinedWithReason++; continue; }
+      expect(s.period).toBeLessThanOrEqual(s.options.maxPeriodPx * s.options.pixelSize! + 1e-9);
+      expect(s.period).toBeGreaterThanOrEqual(s.options.minPeriodPx * s.options.pixelSize! - 1e-9);
+    }
+    expect(seen).toBeGreaterThan(50);
+    expect(undefinedWithReason).toBeGreaterThan(0);
+  });
+});

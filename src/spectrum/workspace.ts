@@ -153,6 +153,15 @@ class Workspace implements SpectrumWorkspace {
     const peak = opts.peakInterpolation === "gaussian" ? refinePeak(values, found, peakHalfWidth(values, found)) : found;
     const qStarPx = peak.position * dq;
     const periodPx = 1 / qStarPx;
+    if (!(periodPx >= opts.minPeriodPx && periodPx <= opts.maxPeriodPx)) {
+      // The interpolated peak fell outside the searched periods (a broad ring near its edge):
+      // no period rather than one outside the range the search promises.
+      return {
+        ...base, variance, mean, profile, structure: this.structureSummary(frame, opts, undefined),
+        reason: `no ring within the searched periods (${opts.minPeriodPx} to ${opts.maxPeriodPx} px): ` +
+          `the interpolated peak lies at ${Number.isFinite(periodPx) ? periodPx.toFixed(1) : String(periodPx)} px`,
+      };
+    }
 
     // ring width from the structure factor (annulusMean)
     let meanPeak = opts.peakOf === "annulusMean" ? peak : findPeak(profile.annulusMean, lo, hi, opts.peakInterpolation);
