@@ -3,6 +3,7 @@
 // Shards are numbered from 0, like SLURM_ARRAY_TASK_ID of `--array=0-(N-1)`.
 // Also the small binary record of one frame's label image and domain columns that a shard
 // leaves at each end of its range, for tracking across the cut.
+import type { TrackingInput } from "../sequence/job";
 
 /** Frames [start, end) of a movie: `end` is exclusive. */
 export interface FrameRange {
@@ -80,17 +81,11 @@ export function shardFolderName(s: ShardSpec): string {
 }
 
 /** One frame as the tracker saw it: label image and the domain columns it reads. */
-export interface BoundaryFrame {
+export interface BoundaryFrame extends TrackingInput {
   frame: number;
   field?: number;
   width: number;
   height: number;
-  labels: Int32Array;
-  count: number;
-  phase: Uint8Array;
-  area: Float64Array;
-  centroidX: Float64Array;
-  centroidY: Float64Array;
 }
 
 const MAGIC = "domtopo-boundary-frame";
