@@ -12,6 +12,7 @@ import { AtomicWriter, writeFileAtomic } from "./atomic";
 import { SHARD_FILES } from "./run";
 import { decodeBoundaryFrame, type FrameRange } from "./shard";
 import { csvLine } from "../topology/rows";
+import { resolveFrameOptions, type FrameOptions } from "../topology/options";
 import { DomainTracker, eventRow, trackHeader, trackRows, type FrameEvents } from "../sequence/tracking";
 
 export interface MergeConfig {
@@ -316,8 +317,7 @@ export function mergeShards(config: MergeConfig): MergeSummary {
   }
   let trackCount = 0;
   if (base.tracking) {
-    const opts = base.options as { frame: { unit?: string; pixelSize?: number } };
-    const unit = opts.frame.unit ?? (opts.frame.pixelSize ? "unit" : "px");
+    const unit = resolveFrameOptions((base.options as { frame: FrameOptions }).frame).unit;
     const rows = tracker ? trackRows(tracker.trackSummary()) : [];
     trackCount = rows.length;
     writeFileAtomic(join(out, "tracks.csv"), csvLine(trackHeader(unit)) + rows.map((r) => csvLine(r)).join(""));

@@ -20,6 +20,7 @@ import type { FrameJobOptions, FrameJobResult } from "../sequence/job";
 import { handleFileJob, type FileFrameJob } from "./worker";
 import { csvLine, domainHeader, type Cell } from "../topology/rows";
 import { writeFileAtomic } from "./atomic";
+import { resolveFrameOptions } from "../topology/options";
 import { VERSION } from "../version";
 import type { FieldValues } from "../io/fields";
 import { DomainTracker, createTracker, eventRow, trackHeader, trackRows, type TrackingOptions } from "../sequence/tracking";
@@ -157,6 +158,7 @@ function workerThread(): PoolWorker {
 /** Runs the analysis of a movie into `config.out`. */
 export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const started = performance.now();
+  const frameOptions = resolveFrameOptions(config.options.frame); // units and defaults for headers
   const files = listFrameFiles(config.inputs);
   const source = openFrameFiles(files);
   const total = source.count;
@@ -204,7 +206,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const fieldName = config.fields ? `field${fieldUnit ? "_" + fieldUnit.replace(/[^A-Za-z0-9µ]+/g, "") : ""}` : undefined;
   if (!checkpoint && files_["domains.csv"]) {
     const lead = ["frame", "source", ...(fieldName ? [fieldName] : [])];
-    files_["domains.csv"].write(csvLine([...lead, ...domainHeader(config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px"), config.options.frame.skeleton !== "off")]));
+    files_["domains.csv"].write(csvLine([...lead, ...domainHeader(frameOptions.unit, frameOptions.skeleton !== "off")]));
   }
 
   let tracker: DomainTracker | undefined;
@@ -248,8 +250,9 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
       const index = o.job.index;
       if (o.error) {
         const where = source.describe(index);
-        const message = o.error.message.startsWith(where) || o.error.message.includes(files[0]!.split("/").pop()!)
-          ? o.error.message : `${where}: ${o.error.message}`;
+        // Reader errors already name the file (and frame); others get the frame's place in front.
+        const file = where.replace(/ (page|frame) \d+$/, "");
+        const message = o.error.message.includes(file) ? o.error.message : `${where}: ${o.error.message}`;
         failed.push({ frame: index, where, message });
         config.onFrameError?.(index, where, message);
         if (config.strict) throw new Error(`frame ${index} (${where}) failed: ${o.error.message}`);
@@ -305,7 +308,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   if (completed) {
     for (const name of wanted) renameSync(join(out, `${name}.partial`), join(out, name));
     if (config.tracking) {
-      const unit = config.options.frame.unit ?? (config.options.frame.pixelSize ? "unit" : "px");
+      const unit = frameOptions.unit;
       // A resumed run with no frame left to analyze has its tracker only in the checkpoint.
       if (!tracker && existsSync(trackerPath)) tracker = DomainTracker.fromSnapshot(readFileSync(trackerPath));
       const rows = tracker ? trackRows(tracker.trackSummary()) : [];

@@ -218,10 +218,15 @@ export class FrameAnalyzer {
     const grey = s.signal === "grey";
     let input: Frame = frame;
     if (!grey) {
-      // Copy the phase map out of Wasm memory: the spectrum kernels share that memory.
-      this.phaseCopy ??= new Uint8Array(this.width * this.height);
-      this.phaseCopy.set(this.ws.phase());
-      input = { width: this.width, height: this.height, data: this.phaseCopy };
+      // The phase map out of Wasm memory (the spectrum kernels share it): the skeleton's copy of
+      // this frame when it ran, else a copy into a reused buffer.
+      let phase = this.lastMaps?.phase;
+      if (!phase) {
+        this.phaseCopy ??= new Uint8Array(this.width * this.height);
+        phase = this.phaseCopy;
+        phase.set(this.ws.phase());
+      }
+      input = { width: this.width, height: this.height, data: phase };
     }
     const options: SpectrumOptions = {
       ...s, signal: grey ? "grey" : "binary", pixelSize: o.pixelSize, lengthUnit: o.unit,
