@@ -507,3 +507,342 @@ export function thinByDistance(dist: usize, counts: usize, levels: i32): i32 {
   }
   return left;
 }
+
+// ---- bit-parallel directional thinning (fixed rules) ------------------------------------------
+//
+// Under the fixed rules (one phase 8-connected, the other 4-connected) the directional sweeps run
+// on bit planes, 128 pixels an operation: in a pass with side d (N, S, E, W), every skeleton pixel
+// of the phase whose d-neighbour is outside, that is simple and not an end, is deleted at once.
+// The simple-point test is Yokoi's connectivity number (Yokoi, Toriwaki & Fukumura 1975, CGIP
+// 4:63): with the ring x0..x7 = E, NE, N, NW, W, SW, S, SE, an 8-connected pixel is simple iff
+// the sum over k = 0, 2, 4, 6 of !x_k & (x_{k+1} | x_{k+2}) is 1, a 4-connected pixel iff the sum
+// of x_k & !(x_{k+1} & x_{k+2}) is 1 (the same answers as the 4096-entry table above for all 256
+// rings; tested). Deleting all such border pixels of one side at once keeps the topology
+// (Rosenfeld 1975; with Ronse's minimal non-simple sets, 1988, it is enough that every 8-adjacent
+// pair and every subset of a 2x2 square of candidates can be deleted one after the other, which
+// holds for all 2^16 configurations of a 4x4 window, both connectivities and all four sides:
+// tested exhaustively in test/skeleton/thin-bits.test.ts). The result does not depend on a raster
+// order, so it is exactly invariant under cyclic shifts of a periodic frame.
+// A 4-connected pixel can be simple with all four 4-neighbours inside; those go in subfield
+// passes (the classes of (x mod 2, y mod 2): no two pixels of a class are neighbours, so deleting
+// a class at once is deleting it one by one), alternated with the sweeps until both are stable.
+// Rows whose neighbourhood did not change since the last pass of the same side are skipped.
+// 2x2 blocks left at the end go to breakBlocks above, on the byte map.
+
+let WW: i32 = 0; // words holding pixels
+let WP: i32 = 0; // words per row (even: rows are whole v128 pairs)
+let RB: usize = 0; // bytes per row
+let PLANE1: usize = 0;
+let PLANE0: usize = 0;
+let SLOTS: usize = 0; // three row slots: old row, its E shift, its W shift (3 RB each)
+let ZSLOT: usize = 0; // the row beyond an open side
+let ROW0: usize = 0; // row 0 before the pass (periodic y)
+let DBUF: usize = 0;
+let CHG: usize = 0; // pass number of each row's last deletion (i32)
+const SLOTTAG: usize = memory.data(16);
+// Pass number at which each side was last evaluated (-1: not since the plane started).
+const LASTD: usize = memory.data(16);
+// EXPAND[b]: the 8 bits of b as 8 bytes 0/1 (u64, little-endian).
+const EXPAND: usize = memory.data(256 * 8);
+let expandReady: bool = false;
+let flagsReady: bool = false;
+
+@inline function ldw(r: usize, k: i32): u64 {
+  return load<u64>(r + (<usize>k << 3));
+}
+@inline function ldc(y: i32): i32 {
+  return load<i32>(CHG + (<usize>y << 2));
+}
+@inline function lastd(d: i32): i32 {
+  return load<i32>(LASTD + (<usize>d << 2));
+}
+
+/** Word k of row r shifted so that bit x holds pixel x + 1 (the E neighbour), wrapping on a periodic x axis. */
+@inline function shiftE(r: usize, k: i32): u64 {
+  const a = ldw(r, k) >> 1;
+  if (k + 1 < WW) return a | (ldw(r, k + 1) << 63);
+  return WX ? a | ((load<u64>(r) & 1) << <u64>((W - 1) & 63)) : a;
+}
+
+/** Copies row `src` into `slot` with its E and W shifts (bit x = pixel x + 1, x - 1). */
+function fillSlot(slot: usize, src: usize): void {
+  const rb = RB, wp = WP, e = slot + rb, wv = slot + 2 * rb;
+  memory.copy(slot, src, rb);
+  for (let k = 0; k < wp; k += 2) {
+    const off = <usize>k << 3;
+    const a = v128.load(slot + off);
+    const nx = v128.load(slot + off + 8); // words k + 1, k + 2 (the last pair's is fixed below)
+    const pv = v128.load(slot + off - 8); // words k - 1, k (the first pair's is fixed below)
+    v128.store(e + off, v128.or(i64x2.shr_u(a, 1), i64x2.shl(nx, 63)));
+    v128.store(wv + off, v128.or(i64x2.shl(a, 1), i64x2.shr_u(pv, 63)));
+  }
+  // The last word of pixels and the first: no word beyond; the wrap on a periodic x axis.
+  const last = WW - 1, top = <u64>((W - 1) & 63);
+  let el = ldw(slot, last) >> 1;
+  if (WX) el |= (ldw(slot, 0) & 1) << top;
+  store<u64>(e + (<usize>last << 3), el);
+  let w0 = ldw(slot, 0) << 1;
+  if (WX) w0 |= (ldw(slot, last) >> top) & 1;
+  store<u64>(wv, w0);
+}
+
+/** The slot holding virtual row vr (-1 and H: across the sides) before the pass changed it. */
+function slotFor(plane: usize, vr: i32): usize {
+  let src: usize;
+  if (vr < 0) { if (!WY) return ZSLOT; src = plane + <usize>(H - 1) * RB; }
+  else if (vr >= H) { if (!WY) return ZSLOT; src = ROW0; }
+  else src = plane + <usize>vr * RB;
+  const idx = ((vr % 3) + 3) % 3;
+  const slot = SLOTS + <usize>idx * 3 * RB;
+  if (load<i32>(SLOTTAG + (<usize>idx << 2)) != vr) {
+    fillSlot(slot, src);
+    store<i32>(SLOTTAG + (<usize>idx << 2), vr);
+  }
+  return slot;
+}
+
+/**
+ * One parallel pass over `plane` (t = pass number, for skipping rows): mode 0..3 deletes N, S, E,
+ * W border pixels, mode 4 the pixels of subfield (x mod 2 = sx, y mod 2 = sy) with no side
+ * condition. Returns whether a pixel went.
+ */
+function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32): bool {
+  const h = H, wp = WP, rb = RB;
+  if (WY) memory.copy(ROW0, plane, rb);
+  for (let s = 0; s < 3; s++) store<i32>(SLOTTAG + (<usize>s << 2), i32.MIN_VALUE);
+  const ones = i64x2.splat(-1), zero = i64x2.splat(0);
+  const mN = mode == 0 ? ones : zero, mS = mode == 1 ? ones : zero;
+  const mE = mode == 2 ? ones : zero, mW = mode == 3 ? ones : zero;
+  const sub = mode < 4 ? ones : i64x2.splat(sx != 0 ? <i64>0xaaaaaaaaaaaaaaaa : <i64>0x5555555555555555);
+  const since = mode < 4 ? lastd(mode) : -1;
+  let any = false;
+  for (let y = 0; y < h; y++) {
+    if (mode == 4) { if ((y & 1) != sy) continue; }
+    else if (since >= 0) {
+      let m = ldc(y);
+      if (y > 0) m = max(m, ldc(y - 1)); else if (WY) m = max(m, ldc(h - 1));
+      if (y + 1 < h) m = max(m, ldc(y + 1)); else if (WY) m = max(m, ldc(0));
+      if (m < since) continue;
+    }
+    const u = slotFor(plane, y - 1), c = slotFor(plane, y), d = slotFor(plane, y + 1);
+    const ue = u + rb, uw = u + 2 * rb, ce = c + rb, cw = c + 2 * rb, de = d + rb, dw = d + 2 * rb;
+    let acc = zero;
+    for (let k = 0; k < wp; k += 2) {
+      const off = <usize>k << 3;
+      const cc = v128.load(c + off);
+      let dk = zero;
+      if (v128.any_true(cc)) {
+        const x0 = v128.load(ce + off), x1 = v128.load(ue + off), x2 = v128.load(u + off), x3 = v128.load(uw + off);
+        const x4 = v128.load(cw + off), x5 = v128.load(dw + off), x6 = v128.load(d + off), x7 = v128.load(de + off);
+        let t0: v128, t2: v128, t4: v128, t6: v128, one: v128, two: v128;
+        if (eight) {
+          t0 = v128.andnot(v128.or(x1, x2), x0); t2 = v128.andnot(v128.or(x3, x4), x2);
+          t4 = v128.andnot(v128.or(x5, x6), x4); t6 = v128.andnot(v128.or(x7, x0), x6);
+          // End: exactly one of the eight ring pixels.
+          one = x0; two = zero;
+          two = v128.or(two, v128.and(one, x1)); one = v128.or(one, x1);
+          two = v128.or(two, v128.and(one, x2)); one = v128.or(one, x2);
+          two = v128.or(two, v128.and(one, x3)); one = v128.or(one, x3);
+          two = v128.or(two, v128.and(one, x4)); one = v128.or(one, x4);
+          two = v128.or(two, v128.and(one, x5)); one = v128.or(one, x5);
+          two = v128.or(two, v128.and(one, x6)); one = v128.or(one, x6);
+          two = v128.or(two, v128.and(one, x7)); one = v128.or(one, x7);
+        } else {
+          t0 = v128.andnot(x0, v128.and(x1, x2)); t2 = v128.andnot(x2, v128.and(x3, x4));
+          t4 = v128.andnot(x4, v128.and(x5, x6)); t6 = v128.andnot(x6, v128.and(x7, x0));
+          // End: exactly one of the four 4-neighbours.
+          one = x0; two = zero;
+          two = v128.or(two, v128.and(one, x2)); one = v128.or(one, x2);
+          two = v128.or(two, v128.and(one, x4)); one = v128.or(one, x4);
+          two = v128.or(two, v128.and(one, x6)); one = v128.or(one, x6);
+        }
+        const a = v128.or(t0, t2), b = v128.or(t4, t6);
+        const multi = v128.or(v128.or(v128.and(t0, t2), v128.and(t4, t6)), v128.and(a, b));
+        const simple = v128.andnot(v128.or(a, b), multi);
+        const end = v128.andnot(one, two);
+        const inside = v128.or(v128.or(v128.and(x2, mN), v128.and(x6, mS)), v128.or(v128.and(x0, mE), v128.and(x4, mW)));
+        dk = v128.andnot(v128.and(v128.and(cc, sub), v128.andnot(simple, end)), inside);
+      }
+      v128.store(DBUF + off, dk);
+      acc = v128.or(acc, dk);
+    }
+    if (v128.any_true(acc)) {
+      const r = plane + <usize>y * rb;
+      for (let k = 0; k < wp; k += 2) {
+        const off = <usize>k << 3;
+        v128.store(r + off, v128.andnot(v128.load(r + off), v128.load(DBUF + off)));
+      }
+      store<i32>(CHG + (<usize>y << 2), t);
+      any = true;
+    }
+  }
+  return any;
+}
+
+/** Passes N, S, E, W, ... until every side has run once after the last deletion; returns the next pass number. */
+function sweepBits(plane: usize, eight: bool, t0: i32): i32 {
+  let t = t0, lastChange = t0 - 1;
+  while (true) {
+    let done = true;
+    for (let d = 0; d < 4; d++) if (lastd(d) <= lastChange) done = false;
+    if (done) break;
+    const d = t & 3;
+    if (bitPass(plane, eight, d, t, 0, 0)) lastChange = t;
+    store<i32>(LASTD + (<usize>d << 2), t);
+    t++;
+  }
+  return t;
+}
+
+function thinPlane(plane: usize, eight: bool): void {
+  const h = H;
+  for (let y = 0; y < h; y++) store<i32>(CHG + (<usize>y << 2), -1);
+  for (let d = 0; d < 4; d++) store<i32>(LASTD + (<usize>d << 2), -1);
+  let t = sweepBits(plane, eight, 0);
+  if (eight) return; // an 8-connected pixel with all four 4-neighbours inside is never simple
+  while (true) {
+    let changed = false;
+    for (let s = 0; s < 4; s++) if (bitPass(plane, false, 4, t, s & 1, s >> 1)) changed = true;
+    if (!changed) break;
+    // The rows the subfield passes changed (CHG = t) are looked at again by every side.
+    t = sweepBits(plane, false, t + 1);
+  }
+}
+
+/** Lists the top-left pixels of the 2x2 blocks of `plane` (phase v) on the work list; returns how many. */
+function listBlocks(plane: usize): i32 {
+  const h = H, w = W, ww = WW, rb = RB;
+  NLIST = 0;
+  for (let y = 0; y < h; y++) {
+    if (y + 1 >= h && !WY) break;
+    const c = plane + <usize>y * rb;
+    const d = y + 1 < h ? c + rb : plane;
+    for (let k = 0; k < ww; k++) {
+      let b = ldw(c, k) & shiftE(c, k) & ldw(d, k) & shiftE(d, k);
+      while (b != 0) {
+        const x = (k << 6) + <i32>ctz(b);
+        b &= b - 1;
+        if (x >= w) continue;
+        const i = y * w + x;
+        stl(LA, NLIST, i);
+        NLIST++;
+        store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) | 2));
+      }
+    }
+  }
+  return NLIST;
+}
+
+/** SK bits 3 / 4 (phase) and EDGE, as initSkeleton sets them, on the thinned byte map. */
+function setFlags(): void {
+  const w = W, h = H, n = w * h;
+  const eight = i8x16.splat(8);
+  let i = 0;
+  for (; i + 16 <= n; i += 16) {
+    const s = v128.load(SK + <usize>i), p = v128.load(PH + <usize>i);
+    // phase 1 -> 16, phase 0 -> 8 (PH is 0 or 1).
+    v128.store(SK + <usize>i, v128.or(v128.and(s, i8x16.splat(~(8 | 16))), i8x16.add(eight, i8x16.shl(p, 3))));
+  }
+  for (; i < n; i++) store<u8>(SK + <usize>i, <u8>((<i32>load<u8>(SK + <usize>i) & ~24) | (load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  for (let x = 0; x < w; x++) {
+    store<u8>(SK + <usize>x, load<u8>(SK + <usize>x) | EDGE);
+    const j = (h - 1) * w + x;
+    store<u8>(SK + <usize>j, load<u8>(SK + <usize>j) | EDGE);
+  }
+  for (let y = 0; y < h; y++) {
+    const a = y * w, b = a + w - 1;
+    store<u8>(SK + <usize>a, load<u8>(SK + <usize>a) | EDGE);
+    store<u8>(SK + <usize>b, load<u8>(SK + <usize>b) | EDGE);
+  }
+  flagsReady = true;
+}
+
+/** Bytes of `work` thinBits needs for a W x H frame. */
+export function thinBitsBytes(w: i32, h: i32): i32 {
+  const rb = ((((w + 63) >> 6) + 1) >> 1) << 4;
+  return 2 * h * rb + 14 * rb + 4 * h + 64;
+}
+
+/**
+ * Thins both phases under a fixed rule (RULE 0 or 1) on bit planes carved from `work`
+ * (thinBitsBytes, 16-byte aligned). Leaves SK as thinFinish does. Returns the 2x2 blocks left.
+ */
+export function thinBits(work: usize): i32 {
+  const w = W, h = H, n = w * h;
+  WX = PX && w >= 3;
+  WY = PY && h >= 3;
+  WW = (w + 63) >> 6;
+  WP = (WW + 1) & ~1;
+  RB = <usize>WP << 3;
+  const planeBytes = <usize>h * RB;
+  PLANE1 = work; PLANE0 = PLANE1 + planeBytes;
+  SLOTS = PLANE0 + planeBytes; ZSLOT = SLOTS + 9 * RB; ROW0 = ZSLOT + 3 * RB; DBUF = ROW0 + RB;
+  CHG = DBUF + RB;
+  memory.fill(ZSLOT, 0, 3 * RB);
+  if (!expandReady) {
+    for (let b = 0; b < 256; b++) {
+      let e: u64 = 0;
+      for (let j = 0; j < 8; j++) if (((b >> j) & 1) != 0) e |= (<u64>1) << (<u64>(j << 3));
+      store<u64>(EXPAND + (<usize>b << 3), e);
+    }
+    expandReady = true;
+  }
+  // Phase map -> planes (bit x of a row's words = pixel x; bits past the row stay 0).
+  for (let y = 0; y < h; y++) {
+    const src = PH + <usize>(y * w);
+    const r1 = PLANE1 + <usize>y * RB, r0 = PLANE0 + <usize>y * RB;
+    store<u64>(r1 + RB - 8, 0); store<u64>(r0 + RB - 8, 0);
+    for (let k = 0; k < WW; k++) {
+      const x0 = k << 6;
+      const cnt = min(64, w - x0);
+      let bits: u64 = 0;
+      if (cnt == 64) {
+        const z = i8x16.splat(0);
+        const p = src + <usize>x0;
+        bits = <u64>i8x16.bitmask(i8x16.ne(v128.load(p), z)) |
+          (<u64>i8x16.bitmask(i8x16.ne(v128.load(p, 16), z)) << 16) |
+          (<u64>i8x16.bitmask(i8x16.ne(v128.load(p, 32), z)) << 32) |
+          (<u64>i8x16.bitmask(i8x16.ne(v128.load(p, 48), z)) << 48);
+        store<u64>(r1 + (<usize>k << 3), bits);
+        store<u64>(r0 + (<usize>k << 3), ~bits);
+      } else {
+        for (let j = 0; j < cnt; j++) if (load<u8>(src + <usize>(x0 + j)) != 0) bits |= (<u64>1) << <u64>j;
+        const mask = ((<u64>1) << <u64>cnt) - 1;
+        store<u64>(r1 + (<usize>k << 3), bits);
+        store<u64>(r0 + (<usize>k << 3), ~bits & mask);
+      }
+    }
+  }
+  const eight1 = joinsDiagonal(1, 0);
+  thinPlane(PLANE1, eight1);
+  thinPlane(PLANE0, !eight1);
+  // Planes -> SK bytes (1 on the skeleton).
+  for (let y = 0; y < h; y++) {
+    const r1 = PLANE1 + <usize>y * RB, r0 = PLANE0 + <usize>y * RB;
+    const dst = SK + <usize>(y * w);
+    for (let k = 0; k < WW; k++) {
+      const bits = ldw(r1, k) | ldw(r0, k);
+      const x0 = k << 6;
+      const cnt = min(64, w - x0);
+      const p = dst + <usize>x0;
+      if (cnt == 64) {
+        for (let j = 0; j < 8; j++) {
+          store<u64>(p + <usize>(j << 3), load<u64>(EXPAND + (<usize>((bits >> <u64>(j << 3)) & 0xff) << 3)));
+        }
+      } else {
+        for (let j = 0; j < cnt; j++) store<u8>(p + <usize>j, <u8>((bits >> <u64>j) & 1));
+      }
+    }
+  }
+  // 2x2 blocks: on the byte map with the phase bits, as the list-based thinning breaks them.
+  let left = 0;
+  for (let v = 1; v >= 0; v--) {
+    if (listBlocks(v == 1 ? PLANE1 : PLANE0) == 0) continue;
+    if (!flagsReady) setFlags();
+    DIAG = joinsDiagonal(v, 0) ? 0xf00 : 0;
+    left += breakBlocks(v);
+    compactList(false);
+  }
+  if (flagsReady) { flagsReady = false; thinFinish(n); }
+  return left;
+}

@@ -27,9 +27,10 @@ export interface SkeletonColumns {
   /** Mean width along the skeleton (unit): 2 x mean distance to the other phase - 1/2 px. */
   meanWidth: Float64Array;
   /**
-   * Core length over width: (skeletonLength - the half-width at each end) / (2 x largest
-   * distance - 1/2 px). An end pixel sits on the domain border, so each end is retracted by the
-   * largest half-width along its branch; a disc gives about 0, a w x L bar (L - w) / w.
+   * Core length over width: (domain length - width) / width, with width = 2 x largest distance
+   * - 1/2 px and domain length = skeletonLength + the half-width at each end (the thinning stops
+   * a line end about one half-width short of the domain's tip, like the medial axis). A disc
+   * gives about 0, a w x L bar or capsule (L - w) / w.
    */
   aspect: Float64Array;
   /** 0 bubble, 1 stripe, 2 labyrinth (KIND_NAMES). */
@@ -54,7 +55,7 @@ export function classifyDomains(g: SkeletonGraph, count: number, pointDistance: 
     closed: new Uint8Array(K),
   };
   const nodes = new Int32Array(K), sumD = new Float64Array(K), cntD = new Float64Array(K);
-  const retract = new Float64Array(K);
+  const reach = new Float64Array(K);
   for (let v = 0; v < g.nodeCount; v++) {
     const d = g.nodeDegree[v]!;
     if (d < 0) continue;
@@ -62,7 +63,7 @@ export function classifyDomains(g: SkeletonGraph, count: number, pointDistance: 
     nodes[r]!++;
     // A skeleton of one pixel is a segment of length 0: two ends, like any short bubble's line.
     if (d === 0) c.ends[r]! += 2;
-    else if (d === 1) c.ends[r]!++;
+    else if (d === 1) { c.ends[r]!++; reach[r]! += g.nodeHalfWidth[v]!; }
     else if (d === 3) c.junctions3[r]!++;
     else if (d >= 4) c.junctions4plus[r]!++;
   }
@@ -73,9 +74,6 @@ export function classifyDomains(g: SkeletonGraph, count: number, pointDistance: 
     if (g.branchA[b]! < 0) nodes[r]!++; // a ring counts as one node and one self-loop
     c.skeletonLength[r]! += g.branchLength[b]!;
     sumD[r]! += g.branchSumDistance[b]!;
-    const a = g.branchA[b]!, e = g.branchB[b]!;
-    const tips = a < 0 ? 0 : (g.nodeDegree[a] === 1 ? 1 : 0) + (g.nodeDegree[e] === 1 ? 1 : 0);
-    retract[r]! += tips * Math.max(0, g.branchMaxDistance[b]! - 0.25);
     cntD[r]! += g.branchPixels[b]!;
   }
   const s = o.pixelSize;
@@ -89,7 +87,7 @@ export function classifyDomains(g: SkeletonGraph, count: number, pointDistance: 
     c.meanWidth[r] = width * s;
     c.skeletonLength[r] = c.skeletonLength[r]! * s;
     const fullWidth = Math.max(1, 2 * pointDistance[r]! - 0.5);
-    c.aspect[r] = Math.max(0, c.skeletonLength[r]! / s - retract[r]!) / fullWidth;
+    c.aspect[r] = Math.max(0, c.skeletonLength[r]! / s + reach[r]! - fullWidth) / fullWidth;
     if (c.junctions3[r]! + c.junctions4plus[r]! > 0) c.kind[r] = KIND_LABYRINTH;
     else if (c.aspect[r]! < o.bubbleMaxAspect) c.kind[r] = KIND_BUBBLE;
     else {

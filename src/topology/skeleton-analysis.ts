@@ -18,7 +18,7 @@ export interface SkeletonOptions {
   spurFactor?: number;
   /** Junctions joined by a branch shorter than this x the local width are one junction. @default 1 */
   junctionMergeFactor?: number;
-  /** Below this skeleton length / mean width an unbranched domain is a bubble. @default 1 */
+  /** Below this aspect ((length - width) / width, see SkeletonColumns.aspect) an unbranched domain is a bubble. @default 1.25 */
   bubbleMaxAspect?: number;
   /** Length of one pixel in the output unit. @default 1 */
   pixelSize?: number;
@@ -86,7 +86,7 @@ export function resolveSkeletonOptions(o: SkeletonOptions = {}): ResolvedSkeleto
     boundary, connectivity,
     spurFactor: positive("spurFactor", o.spurFactor ?? 3),
     junctionMergeFactor: positive("junctionMergeFactor", o.junctionMergeFactor ?? 1),
-    bubbleMaxAspect: positive("bubbleMaxAspect", o.bubbleMaxAspect ?? 1),
+    bubbleMaxAspect: positive("bubbleMaxAspect", o.bubbleMaxAspect ?? 1.25),
     pixelSize,
     thinning: o.thinning === "distance" ? "distance" : o.thinning === undefined || o.thinning === "directional" ? "directional" : bad("thinning", o.thinning),
   };

@@ -48,6 +48,8 @@ export interface SkeletonKernelExports {
   bindThin(skeleton: number, list: number, candidates: number, table: number): void;
   thinPhase(phase: number): number;
   thinFinish(n: number): void;
+  thinBits(work: number): number;
+  thinBitsBytes(width: number, height: number): number;
   thinByDistance(distance: number, counts: number, levels: number): number;
   distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
 }

@@ -14,8 +14,10 @@ export interface ThinGeometry {
   /** Saddle decisions per quad (rule 2): 1 up joins, 0 down joins, 2 not a saddle quad. */
   quads?: Uint8Array;
   /**
-   * Deletion order: `'directional'` sweeps N, S, E, W borders until stable (skeletons close to
-   * the medial line, nearly symmetric); `'distance'` tests each pixel once in order of distance to
+   * Deletion order: `'directional'` passes over N, S, E, W borders until stable, each pass
+   * deleting its side's simple non-end pixels at once (bit-parallel under the fixed rules; one
+   * by one with a re-check under the saddle rule): skeletons close to the medial line, exactly
+   * shifted with a cyclic shift of a periodic frame; `'distance'` tests each pixel once in order of distance to
    * the other phase (about 4x faster, same topology guarantees, but raster order within a level
    * biases the skeleton and can shorten a thick arm to nothing). @default 'directional'
    */
@@ -48,6 +50,7 @@ export class SkeletonWorkspace {
   private readonly scratch: number;
   private readonly counts: number;
   private readonly levels: number;
+  private readonly bits: number;
   private disposed = false;
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
   private lastGeometry: ThinGeometry | undefined;
@@ -70,6 +73,8 @@ export class SkeletonWorkspace {
     this.scratch = wasmAlloc(32 * (3 * width + 4));
     this.levels = 2 * (width + height) + 2;
     this.counts = wasmAlloc(4 * (this.levels + 1));
+    // Bit planes of both phases, row slots and a pass number per row (thinBits).
+    this.bits = wasmAlloc((kernels() as K).thinBitsBytes(width, height));
   }
 
   /** Thins both phases of `phase` (1 up, 0 down) and fills the distance map. */
@@ -94,7 +99,7 @@ export class SkeletonWorkspace {
     k.distancePhases(this.dist, this.vert, this.scratch, width + height);
     const blocksLeft = geometry.order === "distance"
       ? k.thinByDistance(this.dist, this.counts, this.levels)
-      : k.thinPhase(1) + k.thinPhase(0);
+      : geometry.rule === 2 ? k.thinPhase(1) + k.thinPhase(0) : k.thinBits(this.bits);
     k.thinFinish(n);
     this.lastGeometry = geometry;
     return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n), blocksLeft };
@@ -119,7 +124,7 @@ export class SkeletonWorkspace {
     if (this.disposed) return;
     this.disposed = true;
     if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
-    for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts]) wasmFree(p);
+    for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts, this.bits]) wasmFree(p);
   }
 }
 

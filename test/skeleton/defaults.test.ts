@@ -1,4 +1,4 @@
-// The measurements behind the defaults spurFactor = 3 and bubbleMaxAspect = 1 (generated shapes).
+// The measurements behind the defaults spurFactor = 3 and bubbleMaxAspect = 1.25 (generated shapes).
 import { describe, it, expect } from "vitest";
 import { analyzeSkeletons, resolveSkeletonOptions } from "../../src/topology/skeleton-analysis";
 import { label } from "./helpers";
@@ -46,10 +46,13 @@ describe("defaults", () => {
   it("bubbleMaxAspect splits discs and ellipses up to 2:1 from bars and ellipses from 3:1", () => {
     const aspect = (sh: S.Shape) => { const { a, r } = run(sh); return a.columns.aspect[r]!; };
     const compact = [S.disc(3), S.disc(8), S.disc(20), S.roughen(S.disc(5), 0.3, 5),
-      S.ellipse(6, 4, 30), S.ellipse(12, 8, 30), S.ellipse(16, 8, 30), S.bar(8, 8, 20), S.bar(14, 7, 20)];
-    const elongated = [S.ellipse(12, 4, 30), S.ellipse(36, 12, 30), S.bar(12, 4, 20), S.bar(21, 7, 20), S.bar(60, 12, 20)];
-    // Measured aspects: discs 0 (rough 0.15-0.44), ellipses 2:1 0.30-0.42, bars 2:1 0.36-0.80;
-    // ellipses 3:1 1.52-1.60, bars 3:1 1.33-1.96, bars 5:1 3.6-4.1.
+      S.ellipse(6, 4, 30), S.ellipse(12, 8, 30), S.ellipse(16, 8, 30), S.bar(8, 8, 20), S.bar(14, 7, 20),
+      S.ellipse(16, 8, 0), S.ellipse(16, 8, 45), S.bar(14, 7, 0), S.bar(14, 7, 45)];
+    const elongated = [S.ellipse(12, 4, 30), S.ellipse(36, 12, 30), S.bar(12, 4, 20), S.bar(21, 7, 20), S.bar(60, 12, 20),
+      S.ellipse(12, 4, 0), S.ellipse(12, 4, 45), S.bar(12, 4, 0), S.bar(12, 4, 45), S.bar(21, 7, 0), S.bar(21, 7, 45)];
+    // Measured aspects: discs 0.04-0.29 (rough 0.10), ellipses 1.5:1 0.26-0.33, ellipses 2:1
+    // 0.65-0.87, bars 1:1 0.29, bars 2:1 0.92-1.13; ellipses 3:1 1.74-2.71, bars 3:1 1.41-2.07,
+    // bars 5:1 4.14. So 1.25, between 1.13 and 1.41.
     for (const sh of compact) expect(aspect(sh)).toBeLessThan(o.bubbleMaxAspect);
     for (const sh of elongated) expect(aspect(sh)).toBeGreaterThan(o.bubbleMaxAspect);
   });

@@ -112,36 +112,68 @@ describe("kinds of drawn and generated shapes", () => {
 });
 
 describe("invariance", () => {
-  // Frame-level: a 128 x 128 periodic maze under cyclic shifts, a quarter turn and flips.
+  // Frame-level: 128 x 128 periodic mazes under cyclic shifts, quarter turns and flips.
   const w = 128, h = 128;
-  const phase = noiseFrame(w, h, 77, 3, 3, 0.5);
-  const base = analyze({ width: w, height: h, phase }, {}, true).a;
-  const moved: Array<[string, (x: number, y: number) => number]> = [
-    ["shift (5, 0)", (x, y) => y * w + ((x + 5) % w)],
-    ["shift (31, 17)", (x, y) => ((y + 17) % h) * w + ((x + 31) % w)],
-    ["quarter turn", (x, y) => x * w + (w - 1 - y)],
-    ["flip x", (x, y) => y * w + (w - 1 - x)],
-    ["flip y", (x, y) => (h - 1 - y) * w + x],
-  ];
-  for (const [name, to] of moved) {
-    it(`keeps kind counts and lengths of a periodic maze under a ${name}`, () => {
-      const sh = new Uint8Array(w * h);
-      for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) sh[to(x, y)] = phase[y * w + x]!;
-      const a = analyze({ width: w, height: h, phase: sh }, {}, true).a;
-      for (const p of ["up", "down"] as const) {
-        expect(a[p].domains).toBe(base[p].domains);
-        expect(a[p].bubble.count).toBe(base[p].bubble.count);
-        expect(a[p].stripe.count).toBe(base[p].stripe.count);
-        expect(a[p].labyrinth.count).toBe(base[p].labyrinth.count);
-        // The 8-connected phase: within 2% under shifts and the quarter turn, 3.0% measured
-        // under flip x (sequential deletion order), so 3.5%. The 4-connected phase's
-        // staircase skeleton grows more spurs (165 vs 38 ends before pruning here) and repeated
-        // pruning cascades differently after a shift: measured up to 12.4%, so 15% for now.
-        const tol = p === "up" ? 0.035 : 0.15;
-        expect(Math.abs(a[p].skeletonLengthDensity / base[p].skeletonLengthDensity - 1)).toBeLessThan(tol);
+  const seeds = [77, 78, 79, 80, 81, 82];
+  const frames = seeds.map((seed) => noiseFrame(w, h, seed, 3, 3, 0.5));
+  const bases = frames.map((phase) => analyze({ width: w, height: h, phase }, {}, true).a);
+  const moved = (phase: Uint8Array, to: (x: number, y: number) => number) => {
+    const out = new Uint8Array(w * h);
+    for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) out[to(x, y)] = phase[y * w + x]!;
+    return out;
+  };
+  it("gives the same skeleton, kinds and lengths under cyclic shifts of a periodic frame", () => {
+    // The thinning deletes in parallel (no raster order), so a shift moves the skeleton pixel
+    // for pixel.
+    for (let f = 0; f < frames.length; f++) {
+      for (const [dx, dy] of [[5, 0], [31, 17], [64, 64], [1, 127]] as const) {
+        const to = (x: number, y: number) => ((y + dy) % h) * w + ((x + dx) % w);
+        const a = analyze({ width: w, height: h, phase: moved(frames[f]!, to) }, {}, true).a;
+        const base = bases[f]!;
+        let moves = 0;
+        for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) if (a.skeleton[to(x, y)] !== base.skeleton[y * w + x]) moves++;
+        expect(moves).toBe(0);
+        for (const p of ["up", "down"] as const) {
+          expect(a[p].domains).toBe(base[p].domains);
+          expect(a[p].bubble.count).toBe(base[p].bubble.count);
+          expect(a[p].stripe.count).toBe(base[p].stripe.count);
+          expect(a[p].labyrinth.count).toBe(base[p].labyrinth.count);
+          expect(a[p].endsDensity).toBe(base[p].endsDensity);
+          expect(a[p].skeletonLengthDensity).toBeCloseTo(base[p].skeletonLengthDensity, 12);
+        }
       }
-    });
-  }
+    }
+  });
+  it("keeps domain counts exactly and kinds and lengths nearly under quarter turns and flips", () => {
+    // The four side passes come in a fixed order (N, S, E, W), so a quarter turn or a flip
+    // thins in another order and a domain whose aspect sits at bubbleMaxAspect, or whose
+    // junction sits at the pruning limit, can change kind. Measured over these 6 mazes x 7
+    // symmetries (525 domains each time): 18 bubble/stripe and 5 stripe/labyrinth changes
+    // (4.4%), at most 2 per frame and phase; skeleton length per area within 5.6%. (The
+    // sequential thinning this replaced changed kind counts in 31 of the 84 frame-phases,
+    // lengths within 13%.)
+    const symmetries: Array<(x: number, y: number) => number> = [
+      (x, y) => x * w + (w - 1 - y), (x, y) => (h - 1 - y) * w + (w - 1 - x), (x, y) => (h - 1 - x) * w + y,
+      (x, y) => y * w + (w - 1 - x), (x, y) => (h - 1 - y) * w + x, (x, y) => x * w + y, (x, y) => (w - 1 - x) * w + (h - 1 - y),
+    ];
+    let changes = 0, domains = 0, worst = 0;
+    for (let f = 0; f < frames.length; f++) {
+      for (const to of symmetries) {
+        const a = analyze({ width: w, height: h, phase: moved(frames[f]!, to) }, {}, true).a;
+        const base = bases[f]!;
+        for (const p of ["up", "down"] as const) {
+          expect(a[p].domains).toBe(base[p].domains);
+          const here = Math.abs(a[p].bubble.count - base[p].bubble.count) + Math.abs(a[p].labyrinth.count - base[p].labyrinth.count);
+          expect(here).toBeLessThanOrEqual(3);
+          changes += here;
+          domains += base[p].domains;
+          worst = Math.max(worst, Math.abs(a[p].skeletonLengthDensity / base[p].skeletonLengthDensity - 1));
+        }
+      }
+    }
+    expect(changes / domains).toBeLessThan(0.06);
+    expect(worst).toBeLessThan(0.07);
+  });
   it("keeps kinds and junctions of single shapes under rotations and flips", () => {
     const shapes = [S.disc(7), S.bar(50, 7, 10), S.star(40, 4, [90, 210, 330]), S.star(40, 4, [0, 90, 180, 270]), S.ring(18, 3)];
     for (const sh of shapes) {
