@@ -159,12 +159,11 @@ function envelope(gp: usize, n: i32, lb: bool, rb: bool, x0: i32, x1: i32, op: u
 // for the whole run once dq^2 reaches the largest distance found so far. The squared vertical
 // distances (clamped at WIN, beyond any such distance) are copied into WB between pads that hold
 // nothing negative: a read beyond the run is at least the nearer bound's distance, so harmless.
-// A search at offset dq reads pixels -dq .. n + 3 + dq of the run, dq <= (n + 1) / 2.
+// A search at offset dq reads pixels -dq .. n + 15 + dq of the run, dq <= (n + 1) / 2.
 const WIN = 64;
 let WLIM = 0; // min(WIN, W): the longest run searched so
 let WPAD = 0; // WLIM / 2 + 1 slots before and after
-let WB: usize = 0; // i32: WPAD + WLIM + 4 + WPAD slots, squared vertical distances of a run at WPAD
-let BB: usize = 0; // i32: WLIM + 3 slots, the best squared distance per pixel
+let WB: usize = 0; // i32: WPAD + WLIM + 16 + WPAD slots, squared vertical distances of a run at WPAD
 
 @inline function hmax(v: v128): i32 {
   const a = i32x4.max_s(v, v128.shuffle<i32>(v, v, 2, 3, 0, 1));
@@ -172,44 +171,56 @@ let BB: usize = 0; // i32: WLIM + 3 slots, the best squared distance per pixel
   return i32x4.extract_lane(b, 0);
 }
 
-/** Window search over the n (up to WLIM) squared vertical distances at WB + WPAD, bounds at -1 and n. */
+@inline function initBest(xv: v128, nv: v128, wb: usize): v128 {
+  const b = i32x4.min_s(i32x4.add(xv, i32x4.splat(1)), i32x4.sub(nv, xv));
+  const best = i32x4.min_s(i32x4.mul(b, b), v128.load(wb));
+  return v128.and(best, i32x4.lt_s(xv, nv)); // lanes beyond the run: 0
+}
+
+@inline function relaxBest(best: v128, p: usize, off: usize, dd: v128): v128 {
+  return i32x4.min_s(best, i32x4.add(i32x4.min_s(v128.load(p - off), v128.load(p + off)), dd));
+}
+
+@inline function storeDistances(op: usize, x: i32, n: i32, best: v128, capv: v128, cap: f32): void {
+  if (x >= n) return;
+  const d = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(best)), capv);
+  const p = op + (<usize>x << 2);
+  if (x + 4 <= n) { v128.store(p, d); return; }
+  store<f32>(p, f32x4.extract_lane(d, 0));
+  if (x + 1 < n) store<f32>(p, f32x4.extract_lane(d, 1), 4);
+  if (x + 2 < n) store<f32>(p, f32x4.extract_lane(d, 2), 8);
+  void cap;
+}
+
+/**
+ * Window search over the n (up to WLIM) squared vertical distances at WB + WPAD, bounds at -1
+ * and n, in blocks of 16 pixels, each searched only as far as its own largest distance.
+ */
 function windowRun(n: i32, op: usize, cap: f32): void {
   const wb = WB + (<usize>WPAD << 2);
-  const groups = (n + 3) >> 2;
-  const iota = i32x4(0, 1, 2, 3), one = i32x4.splat(1), nv = i32x4.splat(n);
-  let mx = i32x4.splat(0);
-  for (let j = 0; j < groups; j++) {
-    const xv = i32x4.add(iota, i32x4.splat(j << 2));
-    const b = i32x4.min_s(i32x4.add(xv, one), i32x4.sub(nv, xv));
-    let best = i32x4.min_s(i32x4.mul(b, b), v128.load(wb + (<usize>j << 4)));
-    best = v128.and(best, i32x4.lt_s(xv, nv)); // lanes beyond the run: 0
-    v128.store(BB + (<usize>j << 4), best);
-    mx = i32x4.max_s(mx, best);
-  }
-  let top = hmax(mx);
-  for (let dq = 1; dq * dq < top; dq++) {
-    const dd = i32x4.splat(dq * dq);
-    const off = <usize>dq << 2;
-    mx = i32x4.splat(0);
-    for (let j = 0; j < groups; j++) {
-      const p = wb + (<usize>j << 4);
-      const c = i32x4.add(i32x4.min_s(v128.load(p - off), v128.load(p + off)), dd);
-      const best = i32x4.min_s(v128.load(BB + (<usize>j << 4)), c);
-      v128.store(BB + (<usize>j << 4), best);
-      mx = i32x4.max_s(mx, best);
-    }
-    top = hmax(mx);
-  }
+  const iota = i32x4(0, 1, 2, 3), nv = i32x4.splat(n);
   const capv = f32x4.splat(cap);
-  const full = n >> 2;
-  for (let j = 0; j < full; j++) {
-    const d = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(v128.load(BB + (<usize>j << 4)))), capv);
-    v128.store(op + (<usize>j << 4), d);
-  }
-  for (let x = full << 2; x < n; x++) {
-    let d = Mathf.sqrt(<f32>load<i32>(BB + (<usize>x << 2)));
-    if (d > cap) d = cap;
-    store<f32>(op + (<usize>x << 2), d);
+  for (let x = 0; x < n; x += 16) {
+    const p = wb + (<usize>x << 2);
+    const xv = i32x4.add(iota, i32x4.splat(x));
+    let b0 = initBest(xv, nv, p);
+    let b1 = initBest(i32x4.add(xv, i32x4.splat(4)), nv, p + 16);
+    let b2 = initBest(i32x4.add(xv, i32x4.splat(8)), nv, p + 32);
+    let b3 = initBest(i32x4.add(xv, i32x4.splat(12)), nv, p + 48);
+    let top = hmax(i32x4.max_s(i32x4.max_s(b0, b1), i32x4.max_s(b2, b3)));
+    for (let dq = 1; dq * dq < top; dq++) {
+      const dd = i32x4.splat(dq * dq);
+      const off = <usize>dq << 2;
+      b0 = relaxBest(b0, p, off, dd);
+      b1 = relaxBest(b1, p + 16, off, dd);
+      b2 = relaxBest(b2, p + 32, off, dd);
+      b3 = relaxBest(b3, p + 48, off, dd);
+      top = hmax(i32x4.max_s(i32x4.max_s(b0, b1), i32x4.max_s(b2, b3)));
+    }
+    storeDistances(op, x, n, b0, capv, cap);
+    storeDistances(op, x + 4, n, b1, capv, cap);
+    storeDistances(op, x + 8, n, b2, capv, cap);
+    storeDistances(op, x + 12, n, b3, capv, cap);
   }
 }
 
@@ -259,8 +270,8 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
   const slots = 3 * w + 4;
   SP = scratch; SA = SP + (<usize>slots << 2); GB = SA + (<usize>slots << 3); OB = GB + (<usize>slots << 2);
   WLIM = min(WIN, w); WPAD = (WLIM >> 1) + 1;
-  const wslots = 2 * WPAD + WLIM + 4;
-  WB = OB + (<usize>slots << 2); BB = WB + (<usize>wslots << 2);
+  const wslots = 2 * WPAD + WLIM + 16;
+  WB = OB + (<usize>slots << 2);
   memory.fill(WB, 0, <usize>wslots << 2);
   // Vertical distances are capped at ceil(cap) + 1: a capped candidate is never below cap.
   let far = <i32>Math.ceil(<f64>cap) + 1;
