@@ -153,111 +153,193 @@ function envelope(gp: usize, n: i32, lb: bool, rb: bool, x0: i32, x1: i32, op: u
   }
 }
 
-// Runs between two bounds of at most WIN pixels are answered by a window search instead: every
-// pixel x is within b(x) = min(x + 1, n - x) of a bound, so only candidates q with
-// (x - q)^2 < min(b(x)^2, g_x^2) can be lower, and the search over offsets dq = 1, 2, ... stops
-// for the whole run once dq^2 reaches the largest distance found so far. The squared vertical
-// distances (clamped at WIN, beyond any such distance) are copied into WB between pads that hold
-// nothing negative: a read beyond the run is at least the nearer bound's distance, so harmless.
-// A search at offset dq reads pixels -dq .. n + 15 + dq of the run, dq <= (n + 1) / 2.
-const WIN = 64;
-let WLIM = 0; // min(WIN, W): the longest run searched so
-let WPAD = 0; // WLIM / 2 + 1 slots before and after
-let WB: usize = 0; // i32: WPAD + WLIM + 16 + WPAD slots, squared vertical distances of a run at WPAD
-
-@inline function hmax(v: v128): i32 {
-  const a = i32x4.max_s(v, v128.shuffle<i32>(v, v, 2, 3, 0, 1));
-  const b = i32x4.max_s(a, v128.shuffle<i32>(a, a, 1, 0, 3, 2));
-  return i32x4.extract_lane(b, 0);
-}
-
-@inline function initBest(xv: v128, nv: v128, wb: usize): v128 {
-  const b = i32x4.min_s(i32x4.add(xv, i32x4.splat(1)), i32x4.sub(nv, xv));
-  const best = i32x4.min_s(i32x4.mul(b, b), v128.load(wb));
-  return v128.and(best, i32x4.lt_s(xv, nv)); // lanes beyond the run: 0
-}
-
-@inline function relaxBest(best: v128, p: usize, off: usize, dd: v128): v128 {
-  return i32x4.min_s(best, i32x4.add(i32x4.min_s(v128.load(p - off), v128.load(p + off)), dd));
-}
-
-@inline function storeDistances(op: usize, x: i32, n: i32, best: v128, capv: v128, cap: f32): void {
-  if (x >= n) return;
-  const d = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(best)), capv);
-  const p = op + (<usize>x << 2);
-  if (x + 4 <= n) { v128.store(p, d); return; }
-  store<f32>(p, f32x4.extract_lane(d, 0));
-  if (x + 1 < n) store<f32>(p, f32x4.extract_lane(d, 1), 4);
-  if (x + 2 < n) store<f32>(p, f32x4.extract_lane(d, 2), 8);
-  void cap;
-}
-
-/**
- * Window search over the n (up to WLIM) squared vertical distances at WB + WPAD, bounds at -1
- * and n, in blocks of 16 pixels, each searched only as far as its own largest distance.
- */
-function windowRun(n: i32, op: usize, cap: f32): void {
-  const wb = WB + (<usize>WPAD << 2);
-  const iota = i32x4(0, 1, 2, 3), nv = i32x4.splat(n);
-  const capv = f32x4.splat(cap);
-  for (let x = 0; x < n; x += 16) {
-    const p = wb + (<usize>x << 2);
-    const xv = i32x4.add(iota, i32x4.splat(x));
-    let b0 = initBest(xv, nv, p);
-    let b1 = initBest(i32x4.add(xv, i32x4.splat(4)), nv, p + 16);
-    let b2 = initBest(i32x4.add(xv, i32x4.splat(8)), nv, p + 32);
-    let b3 = initBest(i32x4.add(xv, i32x4.splat(12)), nv, p + 48);
-    let top = hmax(i32x4.max_s(i32x4.max_s(b0, b1), i32x4.max_s(b2, b3)));
-    for (let dq = 1; dq * dq < top; dq++) {
-      const dd = i32x4.splat(dq * dq);
-      const off = <usize>dq << 2;
-      b0 = relaxBest(b0, p, off, dd);
-      b1 = relaxBest(b1, p + 16, off, dd);
-      b2 = relaxBest(b2, p + 32, off, dd);
-      b3 = relaxBest(b3, p + 48, off, dd);
-      top = hmax(i32x4.max_s(i32x4.max_s(b0, b1), i32x4.max_s(b2, b3)));
-    }
-    storeDistances(op, x, n, b0, capv, cap);
-    storeDistances(op, x + 4, n, b1, capv, cap);
-    storeDistances(op, x + 8, n, b2, capv, cap);
-    storeDistances(op, x + 12, n, b3, capv, cap);
-  }
-}
-
-/** Squares of the n vertical distances at gp (clamped at WIN) into WB + WPAD. */
-@inline function fillWindow(gp: usize, n: i32, at: i32): void {
-  const wb = WB + (<usize>(WPAD + at) << 2);
-  const lim = i32x4.splat(WIN);
-  let x = 0;
-  for (; x + 4 <= n; x += 4) {
-    const v = i32x4.min_s(v128.load(gp + (<usize>x << 2)), lim);
-    v128.store(wb + (<usize>x << 2), i32x4.mul(v, v));
-  }
-  for (; x < n; x++) {
-    const v = min(load<i32>(gp + (<usize>x << 2)), WIN);
-    store<i32>(wb + (<usize>x << 2), v * v);
-  }
-}
-
 /** Run s..e (inside the row at r) between bounds as given: distances into `out`. */
 @inline function runDistances(g: usize, out: usize, r: i32, s: i32, e: i32, lb: bool, rb: bool, cap: f32): void {
   const n = e - s + 1;
   const op = out + (<usize>(r + s) << 2);
-  const gp = g + (<usize>(r + s) << 2);
-  if (lb && rb) {
-    if (n <= 2) {
-      const d: f32 = cap < 1 ? cap : 1;
-      store<f32>(op, d);
-      if (n == 2) store<f32>(op, d, 4);
-      return;
+  if (n <= 2 && lb && rb) {
+    const d: f32 = cap < 1 ? cap : 1;
+    store<f32>(op, d);
+    if (n == 2) store<f32>(op, d, 4);
+    return;
+  }
+  envelope(g + (<usize>(r + s) << 2), n, lb, rb, 0, n - 1, op, cap);
+}
+
+/** A row by the envelope, run by run (rows whose window search gives up). */
+function rowByEnvelope(g: usize, out: usize, r: i32, cap: f32): void {
+  const w = W;
+  const rp = PH + <usize>r;
+  const first = ph(r);
+  // t: the first run start after x = 0 (PH[t] != PH[t - 1]), or w.
+  const t = runEnd(rp, 1, w, i8x16.splat(<i8>first));
+  if (t == w) {
+    // One phase along the whole row.
+    if (PX) {
+      const gr = g + (<usize>r << 2);
+      memory.copy(GB, gr, <usize>w << 2);
+      memory.copy(GB + (<usize>w << 2), gr, <usize>w << 2);
+      memory.copy(GB + (<usize>w << 3), gr, <usize>w << 2);
+      envelope(GB, 3 * w, false, false, w, 2 * w - 1, out + (<usize>r << 2), cap);
+    } else {
+      envelope(g + (<usize>r << 2), w, false, false, 0, w - 1, out + (<usize>r << 2), cap);
     }
-    if (n <= WLIM) {
-      fillWindow(gp, n, 0);
-      windowRun(n, op, cap);
-      return;
+    return;
+  }
+  if (PX) {
+    // Every run has other-phase bounds on both sides; when the row's ends have one phase, the
+    // run ending at x = t - 1 starts in the row's tail: whole runs from t, then that one.
+    const s = ph(r + w - 1) == first ? t : 0;
+    let x = s;
+    while (x < w) {
+      const e = runEnd(rp, x + 1, w, i8x16.splat(<i8>ph(r + x))) - 1;
+      if (e == w - 1 && s > 0) {
+        const n1 = w - x, m = n1 + s;
+        memory.copy(GB, g + (<usize>(r + x) << 2), <usize>n1 << 2);
+        memory.copy(GB + (<usize>n1 << 2), g + (<usize>r << 2), <usize>s << 2);
+        envelope(GB, m, true, true, 0, m - 1, OB, cap);
+        memory.copy(out + (<usize>(r + x) << 2), OB, <usize>n1 << 2);
+        memory.copy(out + (<usize>r << 2), OB + (<usize>n1 << 2), <usize>s << 2);
+        break;
+      }
+      runDistances(g, out, r, x, e, true, true, cap);
+      x = e + 1;
+    }
+  } else {
+    let x = 0;
+    while (x < w) {
+      const e = runEnd(rp, x + 1, w, i8x16.splat(<i8>ph(r + x))) - 1;
+      runDistances(g, out, r, x, e, x > 0, e < w - 1, cap);
+      x = e + 1;
     }
   }
-  envelope(gp, n, lb, rb, 0, n - 1, op, cap);
+}
+
+// Window search along a whole row, 32 pixels (four i16x8) at a time: pixel x of phase v takes
+// min over offsets dq of E_v[x - dq] + dq^2 and E_v[x + dq] + dq^2, where E_v[y] = g_y^2 at a
+// pixel y of phase v and 0 at a pixel of the other phase (it is itself at distance dq). A block
+// stops at the first dq with dq^2 >= its largest distance so far: every candidate further away
+// is at least that far. E1 and E0 hold the row between pads: copies across the wrap on a periodic
+// row, BIG (no candidate) on an open one. Vertical distances are clamped at DQM + 1 before
+// squaring, so a search that stops by DQM is exact; a row where a block would search further is
+// left to the envelope. The squares fit i16 (at most 128^2 + 127^2).
+const BIG: i16 = 16384;
+let DQM = 0;   // the largest offset searched (pad P - 1)
+let WP = 0;    // pad P: slots before the row; P + 32 after it
+let E1: usize = 0;
+let E0: usize = 0;
+
+@inline function hmax16(v: v128): i32 {
+  const a = i16x8.max_s(v, v128.shuffle<i64>(v, v, 1, 0));
+  const b = i16x8.max_s(a, v128.shuffle<i32>(a, a, 1, 0, 3, 2));
+  const c = i16x8.max_s(b, i8x16.shuffle(b, b, 2, 3, 0, 1, 6, 7, 4, 5, 10, 11, 8, 9, 14, 15, 12, 13));
+  return <i32>i16x8.extract_lane_s(c, 0);
+}
+
+/** Phase-1 lanes of the 8 pixels at r + x (lanes at x >= w: none, their E reads are pads). */
+@inline function upMask(r: i32, x: i32): v128 {
+  if (x >= W) return i16x8.splat(0);
+  return i16x8.eq(i16x8.extend_low_i8x16_u(v128.load64_zero(PH + <usize>(r + x))), i16x8.splat(1));
+}
+
+@inline function relax16(best: v128, m: v128, p1: usize, p0: usize, off: usize, dd: v128): v128 {
+  const c1 = i16x8.min_s(v128.load(p1 - off), v128.load(p1 + off));
+  const c0 = i16x8.min_s(v128.load(p0 - off), v128.load(p0 + off));
+  return i16x8.min_s(best, i16x8.add_sat_s(v128.bitselect(c1, c0, m), dd));
+}
+
+@inline function store8(out: usize, r: i32, x: i32, w: i32, best: v128, capv: v128, cap: f32): void {
+  if (x >= w) return;
+  const lo = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_low_i16x8_s(best))), capv);
+  const hi = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_high_i16x8_s(best))), capv);
+  const p = out + (<usize>(r + x) << 2);
+  if (x + 8 <= w) { v128.store(p, lo); v128.store(p, hi, 16); return; }
+  store<f32>(p, f32x4.extract_lane(lo, 0));
+  if (x + 1 < w) store<f32>(p, f32x4.extract_lane(lo, 1), 4);
+  if (x + 2 < w) store<f32>(p, f32x4.extract_lane(lo, 2), 8);
+  if (x + 3 < w) store<f32>(p, f32x4.extract_lane(lo, 3), 12);
+  if (x + 4 < w) store<f32>(p, f32x4.extract_lane(hi, 0), 16);
+  if (x + 5 < w) store<f32>(p, f32x4.extract_lane(hi, 1), 20);
+  if (x + 6 < w) store<f32>(p, f32x4.extract_lane(hi, 2), 24);
+  void cap;
+}
+
+/** Squared clamped vertical distances of row r into E1 / E0 by phase, and the pads. */
+function fillRow(g: usize, r: i32): void {
+  const w = W, lim = DQM + 1;
+  const e1 = E1 + (<usize>WP << 1), e0 = E0 + (<usize>WP << 1);
+  const limv = i32x4.splat(lim);
+  let x = 0;
+  for (; x + 8 <= w; x += 8) {
+    const p = g + (<usize>(r + x) << 2);
+    const v = i16x8.narrow_i32x4_s(i32x4.min_s(v128.load(p), limv), i32x4.min_s(v128.load(p, 16), limv));
+    const e = i16x8.mul(v, v);
+    const m = upMask(r, x);
+    v128.store(e1 + (<usize>x << 1), v128.and(e, m));
+    v128.store(e0 + (<usize>x << 1), v128.andnot(e, m));
+  }
+  for (; x < w; x++) {
+    const v = min(ldg(g, r + x), lim);
+    const e = <i16>(v * v), up = ph(r + x) != 0;
+    store<i16>(e1 + (<usize>x << 1), up ? e : 0);
+    store<i16>(e0 + (<usize>x << 1), up ? 0 : e);
+  }
+  if (!PX) return; // open pads: BIG, written once per frame
+  const P = WP;
+  if (w >= P + 32) {
+    memory.copy(e1 - (<usize>P << 1), e1 + (<usize>(w - P) << 1), <usize>P << 1);
+    memory.copy(e0 - (<usize>P << 1), e0 + (<usize>(w - P) << 1), <usize>P << 1);
+    memory.copy(e1 + (<usize>w << 1), e1, <usize>(P + 32) << 1);
+    memory.copy(e0 + (<usize>w << 1), e0, <usize>(P + 32) << 1);
+    return;
+  }
+  for (let k = 1; k <= P; k++) {
+    let y = w - k % w; if (y == w) y = 0;
+    store<i16>(e1 - (<usize>k << 1), load<i16>(e1 + (<usize>y << 1)));
+    store<i16>(e0 - (<usize>k << 1), load<i16>(e0 + (<usize>y << 1)));
+  }
+  for (let k = 0; k < P + 32; k++) {
+    const y = k % w;
+    store<i16>(e1 + (<usize>(w + k) << 1), load<i16>(e1 + (<usize>y << 1)));
+    store<i16>(e0 + (<usize>(w + k) << 1), load<i16>(e0 + (<usize>y << 1)));
+  }
+}
+
+/** Window search of row r (E1 / E0 filled); false (nothing reliable written) if it gives up. */
+function rowByWindow(out: usize, r: i32, cap: f32): bool {
+  const w = W;
+  const e1 = E1 + (<usize>WP << 1), e0 = E0 + (<usize>WP << 1);
+  const capv = f32x4.splat(cap);
+  const iota = i16x8(0, 1, 2, 3, 4, 5, 6, 7);
+  const lim2 = (DQM + 1) * (DQM + 1);
+  for (let x = 0; x < w; x += 32) {
+    const m0 = upMask(r, x), m1 = upMask(r, x + 8), m2 = upMask(r, x + 16), m3 = upMask(r, x + 24);
+    const p1 = e1 + (<usize>x << 1), p0 = e0 + (<usize>x << 1);
+    // Own squared vertical distance; lanes beyond the row 0.
+    const xv = i16x8.add(iota, i16x8.splat(<i16>(x - w)));
+    let b0 = v128.and(v128.bitselect(v128.load(p1), v128.load(p0), m0), i16x8.lt_s(xv, i16x8.splat(0)));
+    let b1 = v128.and(v128.bitselect(v128.load(p1, 16), v128.load(p0, 16), m1), i16x8.lt_s(xv, i16x8.splat(-8)));
+    let b2 = v128.and(v128.bitselect(v128.load(p1, 32), v128.load(p0, 32), m2), i16x8.lt_s(xv, i16x8.splat(-16)));
+    let b3 = v128.and(v128.bitselect(v128.load(p1, 48), v128.load(p0, 48), m3), i16x8.lt_s(xv, i16x8.splat(-24)));
+    let top = hmax16(i16x8.max_s(i16x8.max_s(b0, b1), i16x8.max_s(b2, b3)));
+    for (let dq = 1; dq * dq < top; dq++) {
+      if (dq > DQM) return false;
+      const dd = i16x8.splat(<i16>(dq * dq));
+      const off = <usize>dq << 1;
+      b0 = relax16(b0, m0, p1, p0, off, dd);
+      b1 = relax16(b1, m1, p1 + 16, p0 + 16, off, dd);
+      b2 = relax16(b2, m2, p1 + 32, p0 + 32, off, dd);
+      b3 = relax16(b3, m3, p1 + 48, p0 + 48, off, dd);
+      top = hmax16(i16x8.max_s(i16x8.max_s(b0, b1), i16x8.max_s(b2, b3)));
+    }
+    // A distance of DQM + 1 may come from a clamped vertical distance.
+    if (top >= lim2) return false;
+    store8(out, r, x, w, b0, capv, cap);
+    store8(out, r, x + 8, w, b1, capv, cap);
+    store8(out, r, x + 16, w, b2, capv, cap);
+    store8(out, r, x + 24, w, b3, capv, cap);
+  }
+  return true;
 }
 
 /**
@@ -269,10 +351,15 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
   const w = W, h = H, n = w * h;
   const slots = 3 * w + 4;
   SP = scratch; SA = SP + (<usize>slots << 2); GB = SA + (<usize>slots << 3); OB = GB + (<usize>slots << 2);
-  WLIM = min(WIN, w); WPAD = (WLIM >> 1) + 1;
-  const wslots = 2 * WPAD + WLIM + 16;
-  WB = OB + (<usize>slots << 2);
-  memory.fill(WB, 0, <usize>wslots << 2);
+  // Window rows: 2 x (P + w + P + 32) i16 in what is left of the scratch (36 w + 48 bytes).
+  // (Lane positions are i16: rows wider than 32000 take the envelope.)
+  WP = w > 32000 ? 0 : max(0, min(128, 4 * w - 10));
+  DQM = WP - 1;
+  const eslots = 2 * WP + w + 32;
+  E1 = OB + (<usize>slots << 2); E0 = E1 + (<usize>eslots << 1);
+  if (DQM >= 1 && !PX) {
+    for (let k = 0; k < eslots; k++) { store<i16>(E1 + (<usize>k << 1), BIG); store<i16>(E0 + (<usize>k << 1), BIG); }
+  }
   // Vertical distances are capped at ceil(cap) + 1: a capped candidate is never below cap.
   let far = <i32>Math.ceil(<f64>cap) + 1;
   if (far < 1) far = 1;
@@ -294,61 +381,10 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
   // Row pass.
   for (let y = 0; y < h; y++) {
     const r = y * w;
-    const rp = PH + <usize>r;
-    const first = ph(r);
-    // t: the first run start after x = 0 (PH[t] != PH[t - 1]), or w.
-    let t = runEnd(rp, 1, w, i8x16.splat(<i8>first));
-    if (t == w && !(PX && w > 1 && ph(r + w - 1) != first)) {
-      // One phase along the whole row.
-      if (PX) {
-        const gr = g + (<usize>r << 2);
-        memory.copy(GB, gr, <usize>w << 2);
-        memory.copy(GB + (<usize>w << 2), gr, <usize>w << 2);
-        memory.copy(GB + (<usize>w << 3), gr, <usize>w << 2);
-        envelope(GB, 3 * w, false, false, w, 2 * w - 1, out + (<usize>r << 2), cap);
-      } else {
-        envelope(g + (<usize>r << 2), w, false, false, 0, w - 1, out + (<usize>r << 2), cap);
-      }
-      continue;
+    if (DQM >= 1) {
+      fillRow(g, r);
+      if (rowByWindow(out, r, cap)) continue;
     }
-    if (PX) {
-      // Every run has other-phase bounds on both sides; the run holding x = 0 may wrap.
-      let s = 0;
-      if (ph(r + w - 1) == first) {
-        // The run ending at x = t - 1 starts in the row's tail: whole runs from t, then that one.
-        s = t;
-      }
-      let x = s;
-      while (x < w) {
-        const v = ph(r + x);
-        const e = runEnd(rp, x + 1, w, i8x16.splat(<i8>v)) - 1;
-        if (e == w - 1 && s > 0) {
-          // The wrapping run x .. w - 1, 0 .. s - 1: through the row copy.
-          const n1 = w - x, m = n1 + s;
-          if (m <= WLIM) {
-            fillWindow(g + (<usize>(r + x) << 2), n1, 0);
-            fillWindow(g + (<usize>r << 2), s, n1);
-            windowRun(m, OB, cap);
-          } else {
-            memory.copy(GB, g + (<usize>(r + x) << 2), <usize>n1 << 2);
-            memory.copy(GB + (<usize>n1 << 2), g + (<usize>r << 2), <usize>s << 2);
-            envelope(GB, m, true, true, 0, m - 1, OB, cap);
-          }
-          memory.copy(out + (<usize>(r + x) << 2), OB, <usize>n1 << 2);
-          memory.copy(out + (<usize>r << 2), OB + (<usize>n1 << 2), <usize>s << 2);
-          break;
-        }
-        runDistances(g, out, r, x, e, true, true, cap);
-        x = e + 1;
-      }
-    } else {
-      let x = 0;
-      while (x < w) {
-        const v = ph(r + x);
-        const e = runEnd(rp, x + 1, w, i8x16.splat(<i8>v)) - 1;
-        runDistances(g, out, r, x, e, x > 0, e < w - 1, cap);
-        x = e + 1;
-      }
-    }
+    rowByEnvelope(g, out, r, cap);
   }
 }
