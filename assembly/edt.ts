@@ -215,19 +215,21 @@ function rowByEnvelope(g: usize, out: usize, r: i32, cap: f32): void {
   }
 }
 
-// Window search along a whole row, 32 pixels (four i16x8) at a time: pixel x of phase v takes
-// min over offsets dq of E_v[x - dq] + dq^2 and E_v[x + dq] + dq^2, where E_v[y] = g_y^2 at a
-// pixel y of phase v and 0 at a pixel of the other phase (it is itself at distance dq). A block
-// stops at the first dq with dq^2 >= its largest distance so far: every candidate further away
-// is at least that far. E1 and E0 hold the row between pads: copies across the wrap on a periodic
-// row, BIG (no candidate) on an open one. Vertical distances are clamped at DQM + 1 before
-// squaring, so a search that stops by DQM is exact; a row where a block would search further is
-// left to the envelope. The squares fit i16 (at most 128^2 + 127^2).
+// Window search along a whole row, 32 pixels (four i16x8) at a time. Pixel x, at distance b(x)
+// from the nearest other-phase pixel of its row (the bounds of its run), starts from
+// min(b(x)^2, g_x^2) and takes min over offsets dq < b(x) of E[x - dq] + dq^2 and E[x + dq] + dq^2
+// with E[y] = g_y^2: those pixels lie in its own run. A read at dq >= b(x) gives at least
+// dq^2 >= b(x)^2, never lower, so the search need not know where the run ends. A block stops at
+// the first dq with dq^2 >= its largest distance so far: every candidate further away is at least
+// that far. E holds the row between pads: copies across the wrap on a periodic row, BIG (no
+// candidate) on an open one. Vertical distances and b are clamped at DQM + 1 before squaring, so
+// a search that stops by DQM with distances below DQM + 1 is exact; a row where a block would go
+// further is left to the envelope. The squares fit i16 (at most 128^2 + 127^2).
 const BIG: i16 = 16384;
 let DQM = 0;   // the largest offset searched (pad P - 1)
 let WP = 0;    // pad P: slots before the row; P + 32 after it
-let E1: usize = 0;
-let E0: usize = 0;
+let EV: usize = 0; // i16 E with pads, the row at EV + 2 P
+let IB: usize = 0; // i16 starting distances min(b^2, g^2), w + 32 slots
 
 @inline function hmax16(v: v128): i32 {
   const a = i16x8.max_s(v, v128.shuffle<i64>(v, v, 1, 0));
@@ -236,19 +238,11 @@ let E0: usize = 0;
   return <i32>i16x8.extract_lane_s(c, 0);
 }
 
-/** Phase-1 lanes of the 8 pixels at r + x (lanes at x >= w: none, their E reads are pads). */
-@inline function upMask(r: i32, x: i32): v128 {
-  if (x >= W) return i16x8.splat(0);
-  return i16x8.eq(i16x8.extend_low_i8x16_u(v128.load64_zero(PH + <usize>(r + x))), i16x8.splat(1));
+@inline function relax16(best: v128, p: usize, off: usize, dd: v128): v128 {
+  return i16x8.min_s(best, i16x8.add_sat_s(i16x8.min_s(v128.load(p - off), v128.load(p + off)), dd));
 }
 
-@inline function relax16(best: v128, m: v128, p1: usize, p0: usize, off: usize, dd: v128): v128 {
-  const c1 = i16x8.min_s(v128.load(p1 - off), v128.load(p1 + off));
-  const c0 = i16x8.min_s(v128.load(p0 - off), v128.load(p0 + off));
-  return i16x8.min_s(best, i16x8.add_sat_s(v128.bitselect(c1, c0, m), dd));
-}
-
-@inline function store8(out: usize, r: i32, x: i32, w: i32, best: v128, capv: v128, cap: f32): void {
+@inline function store8(out: usize, r: i32, x: i32, w: i32, best: v128, capv: v128): void {
   if (x >= w) return;
   const lo = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_low_i16x8_s(best))), capv);
   const hi = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_high_i16x8_s(best))), capv);
@@ -261,83 +255,122 @@ let E0: usize = 0;
   if (x + 4 < w) store<f32>(p, f32x4.extract_lane(hi, 0), 16);
   if (x + 5 < w) store<f32>(p, f32x4.extract_lane(hi, 1), 20);
   if (x + 6 < w) store<f32>(p, f32x4.extract_lane(hi, 2), 24);
-  void cap;
 }
 
-/** Squared clamped vertical distances of row r into E1 / E0 by phase, and the pads. */
+/**
+ * Starting distances of a run of n pixels (or its part from local position k0, len pixels, at
+ * row index x0): min(E, b^2), b the distance to the nearer bound present, clamped. Vector stores
+ * may run up to 7 slots past the part (into pixels written later, or the slots after the row).
+ */
+@inline function startRun(x0: i32, k0: i32, len: i32, n: i32, lb: bool, rb: bool): void {
+  const e = EV + (<usize>WP << 1), ib = IB;
+  const iota = i16x8(1, 2, 3, 4, 5, 6, 7, 8);
+  const limv = i16x8.splat(<i16>(DQM + 1));
+  for (let k = 0; k < len; k += 8) {
+    const kv = i16x8.add(iota, i16x8.splat(<i16>(k0 + k))); // local position + 1
+    let b = limv;
+    if (lb) b = i16x8.min_s(b, kv);
+    if (rb) b = i16x8.min_s(b, i16x8.sub(i16x8.splat(<i16>(n + 1)), kv));
+    const at = <usize>(x0 + k) << 1;
+    v128.store(ib + at, i16x8.min_s(i16x8.mul(b, b), v128.load(e + at)));
+  }
+}
+
+/** Squared clamped vertical distances of row r into E, its pads, and the starting distances. */
 function fillRow(g: usize, r: i32): void {
   const w = W, lim = DQM + 1;
-  const e1 = E1 + (<usize>WP << 1), e0 = E0 + (<usize>WP << 1);
+  const e = EV + (<usize>WP << 1);
   const limv = i32x4.splat(lim);
   let x = 0;
   for (; x + 8 <= w; x += 8) {
     const p = g + (<usize>(r + x) << 2);
     const v = i16x8.narrow_i32x4_s(i32x4.min_s(v128.load(p), limv), i32x4.min_s(v128.load(p, 16), limv));
-    const e = i16x8.mul(v, v);
-    const m = upMask(r, x);
-    v128.store(e1 + (<usize>x << 1), v128.and(e, m));
-    v128.store(e0 + (<usize>x << 1), v128.andnot(e, m));
+    v128.store(e + (<usize>x << 1), i16x8.mul(v, v));
   }
   for (; x < w; x++) {
     const v = min(ldg(g, r + x), lim);
-    const e = <i16>(v * v), up = ph(r + x) != 0;
-    store<i16>(e1 + (<usize>x << 1), up ? e : 0);
-    store<i16>(e0 + (<usize>x << 1), up ? 0 : e);
+    store<i16>(e + (<usize>x << 1), <i16>(v * v));
   }
-  if (!PX) return; // open pads: BIG, written once per frame
-  const P = WP;
-  if (w >= P + 32) {
-    memory.copy(e1 - (<usize>P << 1), e1 + (<usize>(w - P) << 1), <usize>P << 1);
-    memory.copy(e0 - (<usize>P << 1), e0 + (<usize>(w - P) << 1), <usize>P << 1);
-    memory.copy(e1 + (<usize>w << 1), e1, <usize>(P + 32) << 1);
-    memory.copy(e0 + (<usize>w << 1), e0, <usize>(P + 32) << 1);
-    return;
-  }
-  for (let k = 1; k <= P; k++) {
-    let y = w - k % w; if (y == w) y = 0;
-    store<i16>(e1 - (<usize>k << 1), load<i16>(e1 + (<usize>y << 1)));
-    store<i16>(e0 - (<usize>k << 1), load<i16>(e0 + (<usize>y << 1)));
-  }
-  for (let k = 0; k < P + 32; k++) {
-    const y = k % w;
-    store<i16>(e1 + (<usize>(w + k) << 1), load<i16>(e1 + (<usize>y << 1)));
-    store<i16>(e0 + (<usize>(w + k) << 1), load<i16>(e0 + (<usize>y << 1)));
+  const rp = PH + <usize>r;
+  const first = ph(r);
+  const t = runEnd(rp, 1, w, i8x16.splat(<i8>first));
+  if (PX) {
+    const P = WP;
+    if (w >= P + 32) {
+      memory.copy(e - (<usize>P << 1), e + (<usize>(w - P) << 1), <usize>P << 1);
+      memory.copy(e + (<usize>w << 1), e, <usize>(P + 32) << 1);
+    } else {
+      for (let k = 1; k <= P; k++) {
+        let y = w - k % w; if (y == w) y = 0;
+        store<i16>(e - (<usize>k << 1), load<i16>(e + (<usize>y << 1)));
+      }
+      for (let k = 0; k < P + 32; k++) store<i16>(e + (<usize>(w + k) << 1), load<i16>(e + (<usize>(k % w) << 1)));
+    }
+    if (t == w) { startRun(0, 0, w, w, false, false); return; } // one phase along the row
+    let x = 0;
+    if (ph(r + w - 1) == first) {
+      // The run holding x = 0 wraps: it starts at the last run start s and ends at t - 1.
+      let s = w - 1;
+      while (s > 0 && ph(r + s - 1) == first) s--;
+      const n = w - s + t;
+      startRun(0, w - s, t, n, true, true);
+      x = t;
+      while (x < s) {
+        const e1 = runEnd(rp, x + 1, w, i8x16.splat(<i8>ph(r + x)));
+        startRun(x, 0, e1 - x, e1 - x, true, true);
+        x = e1;
+      }
+      startRun(s, 0, w - s, n, true, true); // last: the stores before it may run into its slots
+      return;
+    }
+    while (x < w) {
+      const e1 = runEnd(rp, x + 1, w, i8x16.splat(<i8>ph(r + x)));
+      startRun(x, 0, e1 - x, e1 - x, true, true);
+      x = e1;
+    }
+  } else {
+    // Open pads: BIG, written once per frame.
+    let x = 0;
+    while (x < w) {
+      const e1 = runEnd(rp, x + 1, w, i8x16.splat(<i8>ph(r + x)));
+      startRun(x, 0, e1 - x, e1 - x, x > 0, e1 < w);
+      x = e1;
+    }
   }
 }
 
-/** Window search of row r (E1 / E0 filled); false (nothing reliable written) if it gives up. */
+/** Window search of row r (E and IB filled); false (nothing reliable written) if it gives up. */
 function rowByWindow(out: usize, r: i32, cap: f32): bool {
   const w = W;
-  const e1 = E1 + (<usize>WP << 1), e0 = E0 + (<usize>WP << 1);
+  const e = EV + (<usize>WP << 1);
   const capv = f32x4.splat(cap);
   const iota = i16x8(0, 1, 2, 3, 4, 5, 6, 7);
   const lim2 = (DQM + 1) * (DQM + 1);
   for (let x = 0; x < w; x += 32) {
-    const m0 = upMask(r, x), m1 = upMask(r, x + 8), m2 = upMask(r, x + 16), m3 = upMask(r, x + 24);
-    const p1 = e1 + (<usize>x << 1), p0 = e0 + (<usize>x << 1);
-    // Own squared vertical distance; lanes beyond the row 0.
+    const p = e + (<usize>x << 1), q = IB + (<usize>x << 1);
+    // Lanes beyond the row: 0.
     const xv = i16x8.add(iota, i16x8.splat(<i16>(x - w)));
-    let b0 = v128.and(v128.bitselect(v128.load(p1), v128.load(p0), m0), i16x8.lt_s(xv, i16x8.splat(0)));
-    let b1 = v128.and(v128.bitselect(v128.load(p1, 16), v128.load(p0, 16), m1), i16x8.lt_s(xv, i16x8.splat(-8)));
-    let b2 = v128.and(v128.bitselect(v128.load(p1, 32), v128.load(p0, 32), m2), i16x8.lt_s(xv, i16x8.splat(-16)));
-    let b3 = v128.and(v128.bitselect(v128.load(p1, 48), v128.load(p0, 48), m3), i16x8.lt_s(xv, i16x8.splat(-24)));
+    let b0 = v128.and(v128.load(q), i16x8.lt_s(xv, i16x8.splat(0)));
+    let b1 = v128.and(v128.load(q, 16), i16x8.lt_s(xv, i16x8.splat(-8)));
+    let b2 = v128.and(v128.load(q, 32), i16x8.lt_s(xv, i16x8.splat(-16)));
+    let b3 = v128.and(v128.load(q, 48), i16x8.lt_s(xv, i16x8.splat(-24)));
     let top = hmax16(i16x8.max_s(i16x8.max_s(b0, b1), i16x8.max_s(b2, b3)));
     for (let dq = 1; dq * dq < top; dq++) {
       if (dq > DQM) return false;
       const dd = i16x8.splat(<i16>(dq * dq));
       const off = <usize>dq << 1;
-      b0 = relax16(b0, m0, p1, p0, off, dd);
-      b1 = relax16(b1, m1, p1 + 16, p0 + 16, off, dd);
-      b2 = relax16(b2, m2, p1 + 32, p0 + 32, off, dd);
-      b3 = relax16(b3, m3, p1 + 48, p0 + 48, off, dd);
+      b0 = relax16(b0, p, off, dd);
+      b1 = relax16(b1, p + 16, off, dd);
+      b2 = relax16(b2, p + 32, off, dd);
+      b3 = relax16(b3, p + 48, off, dd);
       top = hmax16(i16x8.max_s(i16x8.max_s(b0, b1), i16x8.max_s(b2, b3)));
     }
-    // A distance of DQM + 1 may come from a clamped vertical distance.
+    // A distance of DQM + 1 may come from a clamped vertical distance or bound.
     if (top >= lim2) return false;
-    store8(out, r, x, w, b0, capv, cap);
-    store8(out, r, x + 8, w, b1, capv, cap);
-    store8(out, r, x + 16, w, b2, capv, cap);
-    store8(out, r, x + 24, w, b3, capv, cap);
+    store8(out, r, x, w, b0, capv);
+    store8(out, r, x + 8, w, b1, capv);
+    store8(out, r, x + 16, w, b2, capv);
+    store8(out, r, x + 24, w, b3, capv);
   }
   return true;
 }
@@ -356,10 +389,8 @@ export function distancePhases(out: usize, g: usize, scratch: usize, cap: f32): 
   WP = w > 32000 ? 0 : max(0, min(128, 4 * w - 10));
   DQM = WP - 1;
   const eslots = 2 * WP + w + 32;
-  E1 = OB + (<usize>slots << 2); E0 = E1 + (<usize>eslots << 1);
-  if (DQM >= 1 && !PX) {
-    for (let k = 0; k < eslots; k++) { store<i16>(E1 + (<usize>k << 1), BIG); store<i16>(E0 + (<usize>k << 1), BIG); }
-  }
+  EV = OB + (<usize>slots << 2); IB = EV + (<usize>eslots << 1);
+  if (DQM >= 1 && !PX) for (let k = 0; k < eslots; k++) store<i16>(EV + (<usize>k << 1), BIG);
   // Vertical distances are capped at ceil(cap) + 1: a capped candidate is never below cap.
   let far = <i32>Math.ceil(<f64>cap) + 1;
   if (far < 1) far = 1;
