@@ -846,3 +846,11 @@ export function thinBits(work: usize): i32 {
   if (flagsReady) { flagsReady = false; thinFinish(n); }
   return left;
 }
+
+/** Bytes at p: 0 stays 0, anything else becomes 1 (a phase map handed in with other values). */
+export function binarize(p: usize, n: i32): void {
+  const one = i8x16.splat(1);
+  let i = 0;
+  for (; i + 16 <= n; i += 16) v128.store(p + <usize>i, i8x16.min_u(v128.load(p + <usize>i), one));
+  for (; i < n; i++) if (load<u8>(p + <usize>i) != 0) store<u8>(p + <usize>i, 1);
+}

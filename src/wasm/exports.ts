@@ -49,6 +49,7 @@ export interface SkeletonKernelExports {
   thinPhase(phase: number): number;
   thinFinish(n: number): void;
   thinBits(work: number): number;
+  binarize(p: number, n: number): void;
   thinBitsBytes(width: number, height: number): number;
   thinByDistance(distance: number, counts: number, levels: number): number;
   distancePhases(out: number, vertical: number, scratch: number, cap: number): void;

@@ -90,9 +90,9 @@ export class SkeletonWorkspace {
     }
     const k = kernels() as K;
     const ph = viewU8(this.ph, n);
-    for (let i = 0; i < n; i++) ph[i] = phase[i]! === 0 ? 0 : 1;
+    ph.set(phase);
+    k.binarize(this.ph, n);
     if (geometry.rule === 2) viewU8(this.qm, n).set(geometry.quads!);
-    viewU8(this.sk, n).fill(1);
     k.setGeometry(width, height, geometry.periodicX ? 1 : 0, geometry.periodicY ? 1 : 0, geometry.rule);
     k.setBuffers(this.ph, 0, 0, this.qm);
     k.bindThin(this.sk, this.list, this.cand, tablePtr);
@@ -177,7 +177,8 @@ export function skeletonNeighbours(
   }
   const a = adjacency;
   const ph = viewU8(a.ph, n);
-  for (let i = 0; i < n; i++) ph[i] = phase[i]! === 0 ? 0 : 1;
+  ph.set(phase);
+  (kernels() as K).binarize(a.ph, n);
   viewU8(a.sk, n).set(skeleton);
   if (geometry.rule === 2) viewU8(a.qm, n).set(geometry.quads!);
   return adjacencyOf(width, height, geometry, a.ph, a.sk, a.qm, a.deg, a.list, a.nbr);
