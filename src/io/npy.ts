@@ -136,6 +136,19 @@ export function parseNpyHeader(input: Uint8Array | ByteReader, name = "npy"): Np
   };
 }
 
+const HOST_LITTLE = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/** Copies C-order samples whose bytes already are the output's elements (u1, and u2 / f4 in the host's byte order). */
+function copyNative(dtype: NpyDtype, little: boolean, bytes: Uint8Array, out: Uint8Array | Uint16Array | Float32Array, n: number): boolean {
+  if (dtype === "u1") { (out as Uint8Array).set(bytes.subarray(0, n)); return true; }
+  if ((dtype !== "u2" && dtype !== "f4") || little !== HOST_LITTLE) return false;
+  const size = dtype === "u2" ? 2 : 4;
+  const src = bytes.byteOffset % size === 0 ? bytes : bytes.slice(0, n * size);
+  if (dtype === "u2") (out as Uint16Array).set(new Uint16Array(src.buffer, src.byteOffset, n));
+  else (out as Float32Array).set(new Float32Array(src.buffer, src.byteOffset, n));
+  return true;
+}
+
 function outputArray(dtype: NpyDtype, n: number): Uint8Array | Uint16Array | Float32Array {
   if (dtype === "u1" || dtype === "b1") return new Uint8Array(n);
   if (dtype === "u2") return new Uint16Array(n);
@@ -191,8 +204,10 @@ export function readNpyFrame(input: Uint8Array | ByteReader, index: number, name
     const bytes = reader.read(offset, need);
     if (bytes.length < need) throw truncated(name, index, need, offset, reader.size);
     const out = outputArray(h.dtype, n);
-    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-    for (let i = 0; i < n; i++) out[i] = get(view, i * itemSize);
+    if (!copyNative(h.dtype, h.littleEndian, bytes, out, n)) {
+      const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+      for (let i = 0; i < n; i++) out[i] = get(view, i * itemSize);
+    }
     return { width, height, data: out };
   } else {
     // Fortran order: element (k, y, x) at (k + F y + F H x) itemSize. For one column x the
