@@ -134,21 +134,36 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, adjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
+  // Area, phase and largest distance of every domain, in one pass over the labels.
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
-  let badAt = -1;
-  for (let i = 0; i < n; i++) {
-    const d = labels[i]! - 1;
-    if (d < 0 || d >= count) { badAt = i; break; }
-    area[d]!++;
-    domainPhase[d] = phase[i]! ? 1 : 0;
-    if (distance[i]! > maxD[d]!) maxD[d] = distance[i]!;
-  }
-  if (badAt >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[badAt]} at pixel ${badAt}`);
+  const bad = domainTotals(labels, phase, distance, count, area, maxD, domainPhase);
+  if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
+  // (the adjacency's pixel list is a view into Wasm memory: read before anything else runs there)
+  const pruned = prunedSkeleton(graph, adjacency.list, adjacency.count);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   return {
     options: o, columns,
     up: summarizePhase(columns, domainPhase, area, 1, n, o.pixelSize),
     down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
-    skeleton, pruned: prunedSkeleton(graph), distance, graph,
+    skeleton, pruned, distance, graph,
   };
+}
+
+/** Per-domain pixel count, phase and largest distance; returns the first pixel with a label outside 1..count (-1 if none). */
+function domainTotals(
+  labels: Int32Array, phase: Uint8Array, distance: Float32Array, count: number,
+  area: Float64Array, maxD: Float64Array, domainPhase: Uint8Array,
+): number {
+  const n = labels.length;
+  const pixels = new Int32Array(count);
+  for (let i = 0; i < n; i++) {
+    const d = labels[i]! - 1;
+    if (d < 0 || d >= count) return i;
+    pixels[d]!++;
+    domainPhase[d] = phase[i]! ? 1 : 0;
+    const v = distance[i]!;
+    if (v > maxD[d]!) maxD[d] = v;
+  }
+  for (let d = 0; d < count; d++) area[d] = pixels[d]!;
+  return -1;
 }

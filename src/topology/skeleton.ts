@@ -25,6 +25,20 @@ export interface SkeletonGraphInput {
   quads?: Uint8Array;
   /** The skeleton's adjacency, when already at hand (SkeletonWorkspace.neighbours() after the run that gave `skeleton`). */
   adjacency?: SkeletonNeighbours;
+  /**
+   * Step lengths and chords by direction code, for another grid than the square one (the
+   * adjacency's codes index these tables). Without it: the square tables of
+   * `squareDirectionGeometry` for this frame.
+   */
+  directionGeometry?: DirectionGeometry;
+}
+
+/** Lengths along the skeleton by the adjacency's direction codes (0..7). */
+export interface DirectionGeometry {
+  /** step[d]: length of one step in direction d (px), 8 entries. */
+  step: Float64Array;
+  /** chord[8 a + b]: half the chord of a step in direction a followed by one in direction b (px), 64 entries. */
+  chord: Float64Array;
 }
 
 export interface GraphOptions {
@@ -69,191 +83,277 @@ function follow(parent: Int32Array, i: number): number {
   return i;
 }
 
-/** 1 on the skeleton pixels that survive pruning (pixels of pruned spurs and their end nodes are 0). */
-export function prunedSkeleton(g: SkeletonGraph): Uint8Array {
-  const out = new Uint8Array(g.pixelOwner.length);
-  for (let i = 0; i < out.length; i++) {
-    const o = g.pixelOwner[i]!;
-    if (o === -1) continue;
-    if (o >= 0) {
-      const b = follow(g.branchParent, o);
-      const into = g.branchIntoNode[b]!;
-      out[i] = g.branchAlive[b] || (into >= 0 && g.nodeDegree[follow(g.nodeParent, into)]! >= 0) ? 1 : 0;
-    }
-    else {
-      const v = follow(g.nodeParent, -2 - o);
-      const into = g.nodeIntoBranch[v]!;
-      out[i] = g.nodeDegree[v]! >= 0 || (into >= 0 && g.branchAlive[follow(g.branchParent, into)]) ? 1 : 0;
-    }
+/**
+ * 1 on the skeleton pixels that survive pruning (pixels of pruned spurs and their end nodes are
+ * 0). `pixels` (the first `count` entries): the skeleton pixels, when at hand; only they are
+ * visited (every other pixel is 0 anyway).
+ */
+export function prunedSkeleton(g: SkeletonGraph, pixels?: ArrayLike<number>, count?: number): Uint8Array {
+  const owner = g.pixelOwner;
+  const out = new Uint8Array(owner.length);
+  // Whether each branch's and node's pixels survive, decided once per branch and node.
+  const keepBranch = new Uint8Array(g.branchCount), keepNode = new Uint8Array(g.nodeCount);
+  for (let b = 0; b < g.branchCount; b++) {
+    const r = follow(g.branchParent, b);
+    const into = g.branchIntoNode[r]!;
+    keepBranch[b] = g.branchAlive[r] || (into >= 0 && g.nodeDegree[follow(g.nodeParent, into)]! >= 0) ? 1 : 0;
+  }
+  for (let v = 0; v < g.nodeCount; v++) {
+    const r = follow(g.nodeParent, v);
+    const into = g.nodeIntoBranch[r]!;
+    keepNode[v] = g.nodeDegree[r]! >= 0 || (into >= 0 && g.branchAlive[follow(g.branchParent, into)]) ? 1 : 0;
+  }
+  const m = pixels ? (count ?? pixels.length) : owner.length;
+  for (let t = 0; t < m; t++) {
+    const i = pixels ? pixels[t]! : t;
+    const o = owner[i]!;
+    if (o >= 0) out[i] = keepBranch[o] ?? 0;
+    else if (o !== -1) out[i] = keepNode[-2 - o]!;
   }
   return out;
 }
 
-const SQRT2 = Math.SQRT2;
-const CHORD = Float64Array.from({ length: 9 }, (_v, k) => Math.hypot(Math.floor(k / 3), k % 3) / 2);
-
-// Per-pixel scratch, kept between calls of one frame size (a movie reuses it).
-let pooled: { n: number; node: Int32Array; seen: Uint8Array } | undefined;
-function scratch(n: number) {
-  if (!pooled || pooled.n !== n) pooled = { n, node: new Int32Array(n), seen: new Uint8Array(n) };
-  return pooled;
-}
-
-// Direction codes of the adjacency kernel: 0..7 = E, N, W, S, NE, NW, SW, SE (y grows downward).
+// Square grid: direction codes of the adjacency kernel 0..7 = E, N, W, S, NE, NW, SW, SE (y
+// grows downward); a step is 1 along a row or column and sqrt 2 on a diagonal.
 const DX = [1, 0, -1, 0, 1, -1, -1, 1];
 const DY = [0, -1, 0, 1, -1, -1, 1, 1];
-const REVERSE = [2, 3, 0, 1, 6, 7, 4, 5];
-let chordCache: { key: string; table: Float64Array } | undefined;
+const SQUARE_STEP = Float64Array.from(DX, (dx, d) => Math.hypot(dx, DY[d]!));
+const CHORD = Float64Array.from({ length: 9 }, (_v, k) => Math.hypot(Math.floor(k / 3), k % 3) / 2);
+let squareCache: { key: string; geometry: DirectionGeometry } | undefined;
 
-/** chords[8 a + b]: half the chord of a step in direction a followed by one in direction b. */
-function chordTable(w: number, h: number, px: boolean, py: boolean): Float64Array {
-  const key = `${w} ${h} ${px} ${py}`;
-  if (chordCache?.key === key) return chordCache.table;
-  const table = new Float64Array(64);
+/**
+ * The square grid's tables for a frame (shared between calls: do not modify). Half the chord to
+ * the pixel two steps back: straight runs count 1 a step, diagonal runs sqrt 2, and a
+ * 4-connected staircase its diagonal length (not its 1 + 1 steps). Two steps apart, |dx| and
+ * |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2; on a periodic axis (3 pixels or
+ * more, as the adjacency wraps) the shorter way round counts (a frame 3 pixels wide).
+ */
+export function squareDirectionGeometry(width: number, height: number, periodicX: boolean, periodicY: boolean): DirectionGeometry {
+  const px = periodicX && width >= 3, py = periodicY && height >= 3;
+  const key = `${width} ${height} ${px} ${py}`;
+  if (squareCache?.key === key) return squareCache.geometry;
+  const chord = new Float64Array(64);
   for (let a = 0; a < 8; a++) for (let b = 0; b < 8; b++) {
     let dx = Math.abs(DX[a]! + DX[b]!), dy = Math.abs(DY[a]! + DY[b]!);
-    if (px && dx > w / 2) dx = w - dx;
-    if (py && dy > h / 2) dy = h - dy;
-    table[8 * a + b] = CHORD[3 * dx + dy]!;
+    if (px && dx > width / 2) dx = width - dx;
+    if (py && dy > height / 2) dy = height - dy;
+    chord[8 * a + b] = CHORD[3 * dx + dy]!;
   }
-  chordCache = { key, table };
-  return table;
+  squareCache = { key, geometry: { step: SQUARE_STEP, chord } };
+  return squareCache.geometry;
+}
+
+// Growth buffers of the graph walk and of simplify, kept between calls (a movie reuses them;
+// the results are fresh arrays copied out of them).
+const pool = {
+  nodeCap: 0,
+  nodePixel: new Int32Array(0), nodeDomain: new Int32Array(0), nodeDegree: new Int32Array(0),
+  nodeHalf: new Float64Array(0), stack: new Int32Array(0),
+  branchCap: 0,
+  bA: new Int32Array(0), bB: new Int32Array(0), bD: new Int32Array(0), bP: new Int32Array(0),
+  bL: new Float64Array(0), bS: new Float64Array(0), bM: new Float64Array(0),
+};
+
+function reserveNodes(m: number): void {
+  if (pool.nodeCap >= m) return;
+  const c = Math.max(m, 2 * pool.nodeCap, 256);
+  pool.nodeCap = c;
+  pool.nodePixel = new Int32Array(c); pool.nodeDomain = new Int32Array(c); pool.nodeDegree = new Int32Array(c);
+  pool.nodeHalf = new Float64Array(c); pool.stack = new Int32Array(c);
+}
+
+function growBranches(m: number): void {
+  if (pool.branchCap >= m) return;
+  const c = Math.max(m, 2 * pool.branchCap, 256);
+  pool.branchCap = c;
+  const i32 = (a: Int32Array) => { const b = new Int32Array(c); b.set(a); return b; };
+  const f64 = (a: Float64Array) => { const b = new Float64Array(c); b.set(a); return b; };
+  pool.bA = i32(pool.bA); pool.bB = i32(pool.bB); pool.bD = i32(pool.bD); pool.bP = i32(pool.bP);
+  pool.bL = f64(pool.bL); pool.bS = f64(pool.bS); pool.bM = f64(pool.bM);
 }
 
 /** Builds the pixel graph of the skeleton, then prunes and merges it. */
 export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
   const { width: w, height: h, phase, labels, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
   const n = w * h;
-  const px = periodicX && w >= 3, py = periodicY && h >= 3;
   // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
-  // each 8 j + the direction of j (0..7 = E, N, W, S, NE, NW, SW, SE).
-  const pool = scratch(n);
+  // each 8 j + the direction code of the step from i to j.
   const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
   const deg = adj.degree, nbr = adj.neighbours, skelPixels = adj.list, skelCount = adj.count;
-  // Step length by direction: 1 along a row or column, sqrt 2 on a diagonal.
-  const STEP = [1, 1, 1, 1, SQRT2, SQRT2, SQRT2, SQRT2];
-  // Half the chord to the pixel two steps back: straight runs count 1 a step, diagonal runs
-  // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps). Two steps
-  // apart, |dx| and |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2; on a periodic
-  // axis the shorter way round counts (a frame 3 pixels wide). chords[8 a + b]: steps a then b.
-  const chords = chordTable(w, h, px, py);
+  const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
+  const step = geometry.step, chords = geometry.chord;
+  // pixelOwner doubles as the walk's state: -1 not reached yet, -2 - node id on node pixels,
+  // the branch id on walked interior pixels.
+  const owner = new Int32Array(n).fill(-1);
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
-  const node = pool.node;
-  node.fill(-1);
-  const nodePixel: number[] = [], nodeDomain: number[] = [], nodeDegree: number[] = [], nodeHalf: number[] = [];
-  const stack: number[] = [];
+  reserveNodes(skelCount);
+  const nodePixel = pool.nodePixel, nodeDomain = pool.nodeDomain, nodeDegree = pool.nodeDegree, nodeHalf = pool.nodeHalf;
+  const stack = pool.stack;
+  let nc = 0;
   for (let t = 0; t < skelCount; t++) {
     const i = skelPixels[t]!;
-    if (node[i] !== -1 || deg[i] === 2) continue;
-    const id = nodePixel.length;
+    if (owner[i] !== -1 || deg[i] === 2) continue;
+    const tag = -2 - nc;
     let best = i;
-    node[i] = id;
+    owner[i] = tag;
     if (deg[i]! >= 3) {
-      stack.push(i);
-      while (stack.length) {
-        const p = stack.pop()!;
+      let sp = 0;
+      stack[sp++] = i;
+      while (sp > 0) {
+        const p = stack[--sp]!;
         if (distance[p]! > distance[best]!) best = p;
-        for (let k = 0; k < deg[p]!; k++) {
-          const q = nbr[8 * p + k]! >>> 3;
-          if (node[q] === -1 && deg[q]! >= 3) { node[q] = id; stack.push(q); }
+        const dp = deg[p]!, base = 8 * p;
+        for (let k = 0; k < dp; k++) {
+          const q = nbr[base + k]! >>> 3;
+          if (owner[q] === -1 && deg[q]! >= 3) { owner[q] = tag; stack[sp++] = q; }
         }
       }
     }
-    nodePixel.push(best);
-    nodeDomain.push(labels[i]!);
-    nodeDegree.push(0);
-    nodeHalf.push(distance[best]!);
+    nodePixel[nc] = best;
+    nodeDomain[nc] = labels[i]!;
+    nodeDegree[nc] = 0;
+    nodeHalf[nc] = distance[best]!;
+    nc++;
   }
   // Branches from every node pixel; interior pixels have degree 2.
-  const seen = pool.seen;
-  seen.fill(0);
-  const owner = new Int32Array(n).fill(-1);
-  for (let t = 0; t < skelCount; t++) {
-    const i = skelPixels[t]!;
-    if (node[i] !== -1) owner[i] = -2 - node[i]!;
-  }
-  const bA: number[] = [], bB: number[] = [], bD: number[] = [], bL: number[] = [], bS: number[] = [], bP: number[] = [], bM: number[] = [];
-  const endWeight = (p: number) => (deg[p] === 1 ? 1 : 0);
+  let bc = 0;
+  growBranches(Math.max(64, nc));
+  let bA = pool.bA, bB = pool.bB, bD = pool.bD, bL = pool.bL, bS = pool.bS, bP = pool.bP, bM = pool.bM;
+  const room = () => {
+    growBranches(bc + 1);
+    bA = pool.bA; bB = pool.bB; bD = pool.bD; bL = pool.bL; bS = pool.bS; bP = pool.bP; bM = pool.bM;
+  };
   for (let t = 0; t < skelCount; t++) {
     const u = skelPixels[t]!;
-    const a = node[u]!;
-    if (a === -1) continue;
-    for (let k = 0; k < deg[u]!; k++) {
+    const ou = owner[u]!;
+    if (ou > -2) continue;
+    const a = -2 - ou;
+    const du = deg[u]!;
+    for (let k = 0; k < du; k++) {
       const e0 = nbr[8 * u + k]!;
       const wpx = e0 >>> 3, d0 = e0 & 7;
-      const b0 = node[wpx]!;
-      if (b0 !== -1) {
+      const ow = owner[wpx]!;
+      if (ow <= -2) {
         // Node pixel next to node pixel: a branch without interior (once, from the lower index).
+        const b0 = -2 - ow;
         if (b0 === a || wpx < u) continue;
-        bA.push(a); bB.push(b0); bD.push(labels[u]!); bL.push(STEP[d0]!);
-        bS.push(endWeight(u) * distance[u]! + endWeight(wpx) * distance[wpx]!);
-        bP.push(endWeight(u) + endWeight(wpx));
-        bM.push(Math.max(distance[u]!, distance[wpx]!));
-        // (width from the end pixels only: the branch has no interior)
+        if (bc === pool.branchCap) room();
+        // (width from the end pixels only: the branch has no interior; end pixels weigh 1)
+        const eu = du === 1 ? 1 : 0, ew = deg[wpx] === 1 ? 1 : 0;
+        bA[bc] = a; bB[bc] = b0; bD[bc] = labels[u]!; bL[bc] = step[d0]!;
+        bS[bc] = eu * distance[u]! + ew * distance[wpx]!;
+        bP[bc] = eu + ew;
+        bM[bc] = Math.max(distance[u]!, distance[wpx]!);
+        bc++;
         nodeDegree[a]!++; nodeDegree[b0]!++;
         continue;
       }
-      if (seen[wpx]) continue;
-      let prev = u, cur = wpx, din = d0, len = STEP[d0]! / 2;
+      if (ow >= 0) continue; // walked already (from its other end)
+      let prev = u, cur = wpx, din = d0, len = step[d0]! / 2;
       // Mean width from interior pixels (end pixels sit at the domain border, junctions widen).
       let sum = 0, cnt = 0, mx = 0;
       let b = -1;
       while (true) {
-        seen[cur] = 1;
-        owner[cur] = bA.length;
-        sum += distance[cur]!; cnt++;
-        if (distance[cur]! > mx) mx = distance[cur]!;
+        owner[cur] = bc;
+        const dc = distance[cur]!;
+        sum += dc; cnt++;
+        if (dc > mx) mx = dc;
         const n0 = nbr[8 * cur]!;
         const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
         const next = e >>> 3, dout = e & 7;
         len += chords[8 * din + dout]!;
-        if (node[next] !== -1) {
-          b = node[next]!;
-          len += STEP[dout]! / 2;
+        const on = owner[next]!;
+        if (on <= -2) {
+          b = -2 - on;
+          len += step[dout]! / 2;
           break;
         }
-        if (seen[next]) break; // cannot happen on a clean line; stop rather than loop
+        if (on >= 0) break; // cannot happen on a clean line; stop rather than loop
         prev = cur; cur = next; din = dout;
       }
       if (b === -1) continue;
-      bA.push(a); bB.push(b); bD.push(labels[u]!); bL.push(len); bS.push(sum); bP.push(cnt); bM.push(mx);
+      if (bc === pool.branchCap) room();
+      bA[bc] = a; bB[bc] = b; bD[bc] = labels[u]!; bL[bc] = len; bS[bc] = sum; bP[bc] = cnt; bM[bc] = mx;
+      bc++;
       nodeDegree[a]!++; nodeDegree[b]!++;
     }
   }
   // Rings: cycles of degree-2 pixels with no node.
   for (let t = 0; t < skelCount; t++) {
     const i = skelPixels[t]!;
-    if (seen[i] || deg[i] !== 2 || node[i] !== -1) continue;
-    // Entered from the second neighbour: the step in is the reverse of i's step to it.
-    const e1 = nbr[8 * i + 1]!;
-    let prev = e1 >>> 3, din = REVERSE[e1 & 7]!, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
-    while (!seen[cur]) {
-      seen[cur] = 1;
-      owner[cur] = bA.length;
-      sum += distance[cur]!; cnt++;
-      if (distance[cur]! > mx) mx = distance[cur]!;
+    if (owner[i] !== -1 || deg[i] !== 2) continue;
+    // Entered from the second neighbour: the step in is the one from it to i (as its own list has it).
+    const j = nbr[8 * i + 1]! >>> 3;
+    let din = 0;
+    for (let k = 0; k < deg[j]!; k++) {
+      const e = nbr[8 * j + k]!;
+      if (e >>> 3 === i) { din = e & 7; break; }
+    }
+    let prev = j, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
+    while (owner[cur]! < 0) {
+      owner[cur] = bc;
+      const dc = distance[cur]!;
+      sum += dc; cnt++;
+      if (dc > mx) mx = dc;
       const n0 = nbr[8 * cur]!;
       const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
       len += chords[8 * din + (e & 7)]!;
       prev = cur; cur = e >>> 3; din = e & 7;
     }
-    bA.push(-1); bB.push(-1); bD.push(labels[i]!); bL.push(len); bS.push(sum); bP.push(cnt); bM.push(mx);
+    if (bc === pool.branchCap) room();
+    bA[bc] = -1; bB[bc] = -1; bD[bc] = labels[i]!; bL[bc] = len; bS[bc] = sum; bP[bc] = cnt; bM[bc] = mx;
+    bc++;
   }
+  const identity = (m: number) => { const a = new Int32Array(m); for (let i = 0; i < m; i++) a[i] = i; return a; };
   const g: SkeletonGraph = {
-    nodePixel: Int32Array.from(nodePixel), nodeDomain: Int32Array.from(nodeDomain),
-    nodeDegree: Int32Array.from(nodeDegree), nodeHalfWidth: Float64Array.from(nodeHalf),
-    branchA: Int32Array.from(bA), branchB: Int32Array.from(bB), branchDomain: Int32Array.from(bD),
-    branchLength: Float64Array.from(bL), branchSumDistance: Float64Array.from(bS),
-    branchPixels: Int32Array.from(bP), branchMaxDistance: Float64Array.from(bM), branchAlive: new Uint8Array(bA.length).fill(1),
-    nodeCount: nodePixel.length, branchCount: bA.length,
+    nodePixel: nodePixel.slice(0, nc), nodeDomain: nodeDomain.slice(0, nc),
+    nodeDegree: nodeDegree.slice(0, nc), nodeHalfWidth: nodeHalf.slice(0, nc),
+    branchA: bA.slice(0, bc), branchB: bB.slice(0, bc), branchDomain: bD.slice(0, bc),
+    branchLength: bL.slice(0, bc), branchSumDistance: bS.slice(0, bc),
+    branchPixels: bP.slice(0, bc), branchMaxDistance: bM.slice(0, bc), branchAlive: new Uint8Array(bc).fill(1),
+    nodeCount: nc, branchCount: bc,
     pixelOwner: owner,
-    branchParent: Int32Array.from(bA, (_v, i) => i),
-    nodeParent: Int32Array.from(nodePixel, (_v, i) => i),
-    branchIntoNode: new Int32Array(bA.length).fill(-1),
-    nodeIntoBranch: new Int32Array(nodePixel.length).fill(-1),
+    branchParent: identity(bc),
+    nodeParent: identity(nc),
+    branchIntoNode: new Int32Array(bc).fill(-1),
+    nodeIntoBranch: new Int32Array(nc).fill(-1),
   };
   simplify(g, options);
   return g;
+}
+
+// Scratch of simplify, kept between calls: the node -> branch incidence as linked lists in
+// join order (head, tail per node; value, next per entry), the spur candidates grouped by
+// junction, and a per-node mark.
+const sp = {
+  nodeCap: 0, head: new Int32Array(0), tail: new Int32Array(0), merged: new Uint8Array(0),
+  mark: new Int32Array(0), group: new Int32Array(0), groupNode: new Int32Array(0), groupStart: new Int32Array(0),
+  entryCap: 0, value: new Int32Array(0), next: new Int32Array(0),
+  branchCap: 0, candB: new Int32Array(0), candJ: new Int32Array(0), sorted: new Int32Array(0),
+  stamp: 0,
+};
+
+function reserveSimplify(nodes: number, branches: number): void {
+  if (sp.nodeCap < nodes) {
+    const c = Math.max(nodes, 2 * sp.nodeCap, 256);
+    sp.nodeCap = c;
+    sp.head = new Int32Array(c); sp.tail = new Int32Array(c); sp.merged = new Uint8Array(c);
+    sp.mark = new Int32Array(c); sp.group = new Int32Array(c); sp.groupNode = new Int32Array(c); sp.groupStart = new Int32Array(c + 1);
+    sp.stamp = 0;
+  }
+  if (sp.branchCap < branches) {
+    const c = Math.max(branches, 2 * sp.branchCap, 256);
+    sp.branchCap = c;
+    sp.candB = new Int32Array(c); sp.candJ = new Int32Array(c); sp.sorted = new Int32Array(c);
+  }
+  if (sp.entryCap < 2 * branches + 16) growEntries(2 * branches + 16);
+}
+
+function growEntries(m: number): void {
+  const c = Math.max(m, 2 * sp.entryCap, 512);
+  const v = new Int32Array(c), x = new Int32Array(c);
+  v.set(sp.value); x.set(sp.next);
+  sp.value = v; sp.next = x; sp.entryCap = c;
 }
 
 /**
@@ -265,30 +365,41 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
   const deg = g.nodeDegree, A = g.branchA, B = g.branchB, alive = g.branchAlive;
   const L = g.branchLength, S = g.branchSumDistance, P = g.branchPixels, hw = g.nodeHalfWidth;
   const M = g.branchMaxDistance;
-  // Branches at each node (lists rebuilt as the graph changes).
-  const at: number[][] = Array.from({ length: g.nodeCount }, () => []);
-  for (let b = 0; b < g.branchCount; b++) {
-    if (A[b]! >= 0) { at[A[b]!]!.push(b); at[B[b]!]!.push(b); }
-  }
-  // Live branches at v, each once, in the order they joined v.
-  const liveAt = (v: number): number[] => {
-    const out: number[] = [];
-    for (const b of at[v]!) if (alive[b] && !out.includes(b)) out.push(b);
-    return out;
+  const nc = g.nodeCount, bc = g.branchCount;
+  reserveSimplify(nc, bc);
+  const head = sp.head, tail = sp.tail;
+  head.fill(-1, 0, nc);
+  let entries = 0;
+  // Branches at each node, in the order they joined it (a branch can be listed more than once).
+  const join = (v: number, b: number) => {
+    if (entries === sp.entryCap) growEntries(entries + 1);
+    const e = entries++;
+    sp.value[e] = b; sp.next[e] = -1;
+    if (head[v]! < 0) head[v] = e;
+    else sp.next[tail[v]!] = e;
+    tail[v] = e;
   };
+  for (let b = 0; b < bc; b++) {
+    if (A[b]! >= 0) { join(A[b]!, b); join(B[b]!, b); }
+  }
   const other = (b: number, v: number) => (A[b] === v ? B[b]! : A[b]!);
   // A node whose degree fell to 2 joins its two branches (or turns its loop into a ring).
   const dissolve = (v: number) => {
-    const bs = liveAt(v);
+    // The first two live branches at v, each once, in the order they joined v.
+    let b1 = -1, b2 = -1;
+    for (let e = head[v]!; e >= 0; e = sp.next[e]!) {
+      const b = sp.value[e]!;
+      if (!alive[b] || b === b1) continue;
+      if (b1 < 0) b1 = b;
+      else { b2 = b; break; }
+    }
     deg[v] = -1;
-    if (bs.length > 0) g.nodeIntoBranch[v] = bs[0]!;
-    if (bs.length === 1) {
+    if (b1 >= 0) g.nodeIntoBranch[v] = b1;
+    if (b2 < 0) {
       // Both ends of one branch: a loop through v becomes a ring.
-      const b = bs[0]!;
-      A[b] = -1; B[b] = -1;
+      if (b1 >= 0) { A[b1] = -1; B[b1] = -1; }
       return;
     }
-    const [b1, b2] = bs as [number, number];
     const u = other(b1, v), x = other(b2, v);
     // b1 takes over b2: u - v - x.
     g.branchParent[b2] = b1;
@@ -296,10 +407,13 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     M[b1] = Math.max(M[b1]!, M[b2]!, hw[v]!);
     A[b1] = u; B[b1] = x;
     alive[b2] = 0;
-    at[x]!.push(b1);
+    join(x, b1);
     if (u === x && u === v) { A[b1] = -1; B[b1] = -1; }
   };
-  const merged = new Uint8Array(g.nodeCount);
+  const merged = sp.merged;
+  merged.fill(0, 0, nc);
+  const mark = sp.mark, group = sp.group, groupNode = sp.groupNode, groupStart = sp.groupStart;
+  const candB = sp.candB, candJ = sp.candJ, sorted = sp.sorted;
   let changed = true;
   let guard = 0;
   while (changed && guard++ < 10000) {
@@ -308,30 +422,50 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     // goes in the same pass (so the result does not depend on the order of equal spurs; the
     // two corner spurs at a square stripe end both go, leaving the end at the fork). Where
     // every branch of a junction is such a spur (a compact blob), the two longest stay.
-    const spursAt = new Map<number, number[]>();
-    for (let b = 0; b < g.branchCount; b++) {
+    // Candidates are grouped by junction, junctions in the order of their first candidate.
+    const stamp = ++sp.stamp;
+    let nCand = 0, nGroups = 0;
+    for (let b = 0; b < bc; b++) {
       if (!alive[b] || A[b]! < 0) continue;
       const a = A[b]!, c = B[b]!;
       const end = deg[a] === 1 && deg[c]! >= 3 ? a : deg[c] === 1 && deg[a]! >= 3 ? c : -1;
       if (end < 0) continue;
       const j = other(b, end);
       if (L[b]! >= o.spurFactor * hw[j]!) continue;
-      let list = spursAt.get(j);
-      if (!list) { list = []; spursAt.set(j, list); }
-      list.push(b);
+      if (mark[j] !== stamp) { mark[j] = stamp; group[j] = nGroups; groupNode[nGroups] = j; groupStart[nGroups] = 0; nGroups++; }
+      groupStart[group[j]!]!++;
+      candB[nCand] = b; candJ[nCand] = j; nCand++;
     }
-    for (const [j, list] of spursAt) {
-      if (deg[j]! < 3) continue;
-      list.sort((p, q) => L[p]! - L[q]! || p - q);
-      const cut = list.length >= deg[j]! ? list.length - 2 : list.length;
-      for (let t = 0; t < cut; t++) {
-        const b = list[t]!;
-        alive[b] = 0;
-        deg[other(b, j)] = -1;
-        deg[j]!--;
-        changed = true;
+    if (nCand > 0) {
+      // Counts to starts, then each group's candidates in branch order.
+      let at = 0;
+      for (let q = 0; q < nGroups; q++) { const m = groupStart[q]!; groupStart[q] = at; at += m; }
+      groupStart[nGroups] = at;
+      for (let t = 0; t < nCand; t++) sorted[groupStart[group[candJ[t]!]!]!++] = candB[t]!;
+      for (let q = nGroups; q > 0; q--) groupStart[q] = groupStart[q - 1]!;
+      groupStart[0] = 0;
+      for (let q = 0; q < nGroups; q++) {
+        const j = groupNode[q]!;
+        if (deg[j]! < 3) continue;
+        const s0 = groupStart[q]!, s1 = groupStart[q + 1]!;
+        // Shortest first, ties by branch id (insertion sort: a junction has few spurs).
+        for (let t = s0 + 1; t < s1; t++) {
+          const b = sorted[t]!, lb = L[b]!;
+          let r = t - 1;
+          while (r >= s0 && (L[sorted[r]!]! > lb || (L[sorted[r]!]! === lb && sorted[r]! > b))) { sorted[r + 1] = sorted[r]!; r--; }
+          sorted[r + 1] = b;
+        }
+        const size = s1 - s0;
+        const cut = size >= deg[j]! ? size - 2 : size;
+        for (let t = 0; t < cut; t++) {
+          const b = sorted[s0 + t]!;
+          alive[b] = 0;
+          deg[other(b, j)] = -1;
+          deg[j]!--;
+          changed = true;
+        }
+        if (deg[j] === 2) dissolve(j);
       }
-      if (deg[j] === 2) dissolve(j);
     }
     // Junctions joined by a short branch are one junction: two degree-3 nodes whose shortest
     // junction-to-junction branch is the same and shorter than junctionMergeFactor x the local
@@ -339,15 +473,16 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
     // junctions does not collapse into one node; a thinned crossing becomes one degree-4 node.
     const shortest = (v: number): number => {
       let best = -1;
-      for (const e of at[v]!) {
+      for (let x = head[v]!; x >= 0; x = sp.next[x]!) {
+        const e = sp.value[x]!;
         if (!alive[e]) continue; // (a repeated entry cannot change a strict minimum)
-        const x = other(e, v);
-        if (x === v || x < 0 || deg[x]! < 3) continue;
+        const y = other(e, v);
+        if (y === v || y < 0 || deg[y]! < 3) continue;
         if (best < 0 || L[e]! < L[best]!) best = e;
       }
       return best;
     };
-    for (let b = 0; b < g.branchCount; b++) {
+    for (let b = 0; b < bc; b++) {
       if (!alive[b] || A[b]! < 0) continue;
       const a = A[b]!, c = B[b]!;
       if (a === c || deg[a] !== 3 || deg[c] !== 3 || merged[a] || merged[c]) continue;
@@ -362,11 +497,12 @@ function simplify(g: SkeletonGraph, o: GraphOptions): void {
       deg[c] = -1;
       g.nodeParent[c] = a;
       g.branchIntoNode[b] = a; // the joining branch's pixels are part of the junction now
-      for (const e of at[c]!) {
+      for (let x = head[c]!; x >= 0; x = sp.next[x]!) {
+        const e = sp.value[x]!;
         if (!alive[e]) continue;
         if (A[e] === c) A[e] = a;
         if (B[e] === c) B[e] = a;
-        at[a]!.push(e);
+        join(a, e);
       }
       changed = true;
       if (deg[a] === 2) dissolve(a);
