@@ -2,6 +2,7 @@
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
 import { kernels } from "../wasm/instance";
+import { viewI32 } from "../wasm/heap";
 import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
@@ -130,6 +131,8 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
   const adjacency = ws.neighbours();
+  // (the graph may grow Wasm memory, which detaches views: keep where the pixel list is)
+  const listPtr = adjacency.list.byteOffset, listCount = adjacency.count;
   const graph = skeletonGraph(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, adjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
@@ -138,8 +141,7 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
   const bad = domainTotals(labels, phase, distance, count, area, maxD, domainPhase);
   if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
-  // (the adjacency's pixel list is a view into Wasm memory: read before anything else runs there)
-  const pruned = prunedSkeleton(graph, adjacency.list, adjacency.count);
+  const pruned = prunedSkeleton(graph, viewI32(listPtr, listCount), listCount);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   return {
     options: o, columns,
@@ -156,13 +158,21 @@ function domainTotals(
 ): number {
   const n = labels.length;
   const pixels = new Int32Array(count);
-  for (let i = 0; i < n; i++) {
-    const d = labels[i]! - 1;
+  // Run by run of one label: one update per run (the last pixel's phase wins, as per pixel).
+  let i = 0;
+  while (i < n) {
+    const l = labels[i]!, d = l - 1;
     if (d < 0 || d >= count) return i;
-    pixels[d]!++;
-    domainPhase[d] = phase[i]! ? 1 : 0;
-    const v = distance[i]!;
-    if (v > maxD[d]!) maxD[d] = v;
+    let m = maxD[d]!, j = i;
+    do {
+      const v = distance[j]!;
+      if (v > m) m = v;
+      j++;
+    } while (j < n && labels[j] === l);
+    pixels[d]! += j - i;
+    maxD[d] = m;
+    domainPhase[d] = phase[j - 1]! ? 1 : 0;
+    i = j;
   }
   for (let d = 0; d < count; d++) area[d] = pixels[d]!;
   return -1;

@@ -5,6 +5,9 @@
 // where joinsDiagonal holds for its quad (the 8-phase: always; the 4-phase: never; saddle: per
 // quad). So the 4-phase's skeleton is a 4-connected line and its degrees count 4-adjacency.
 import { skeletonNeighbours, type ConnectivityRule, type SkeletonNeighbours } from "../wasm/skeleton";
+import { kernels } from "../wasm/instance";
+import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32, viewF64 } from "../wasm/heap";
+import type { SkeletonGraphKernelExports } from "../wasm/exports";
 
 /** The thinned frame and the labels it belongs to. */
 export interface SkeletonGraphInput {
@@ -143,174 +146,98 @@ export function squareDirectionGeometry(width: number, height: number, periodicX
   return squareCache.geometry;
 }
 
-// Growth buffers of the graph walk and of simplify, kept between calls (a movie reuses them;
-// the results are fresh arrays copied out of them).
-const pool = {
-  nodeCap: 0,
-  nodePixel: new Int32Array(0), nodeDomain: new Int32Array(0), nodeDegree: new Int32Array(0),
-  nodeHalf: new Float64Array(0), stack: new Int32Array(0),
-  branchCap: 0,
-  bA: new Int32Array(0), bB: new Int32Array(0), bD: new Int32Array(0), bP: new Int32Array(0),
-  bL: new Float64Array(0), bS: new Float64Array(0), bM: new Float64Array(0),
-};
-
-function reserveNodes(m: number): void {
-  if (pool.nodeCap >= m) return;
-  const c = Math.max(m, 2 * pool.nodeCap, 256);
-  pool.nodeCap = c;
-  pool.nodePixel = new Int32Array(c); pool.nodeDomain = new Int32Array(c); pool.nodeDegree = new Int32Array(c);
-  pool.nodeHalf = new Float64Array(c); pool.stack = new Int32Array(c);
+// Wasm blocks of the walk, kept between calls and grown as needed (a movie reuses them; the
+// results are fresh arrays copied out of them).
+const blocks = new Map<string, { ptr: number; bytes: number }>();
+function block(name: string, bytes: number): number {
+  const b = blocks.get(name);
+  if (b && b.bytes >= bytes) return b.ptr;
+  if (b) wasmFree(b.ptr);
+  const size = Math.max(bytes, b ? 2 * b.bytes : 0, 64);
+  const ptr = wasmAlloc(size);
+  blocks.set(name, { ptr, bytes: size });
+  return ptr;
 }
 
-function growBranches(m: number): void {
-  if (pool.branchCap >= m) return;
-  const c = Math.max(m, 2 * pool.branchCap, 256);
-  pool.branchCap = c;
-  const i32 = (a: Int32Array) => { const b = new Int32Array(c); b.set(a); return b; };
-  const f64 = (a: Float64Array) => { const b = new Float64Array(c); b.set(a); return b; };
-  pool.bA = i32(pool.bA); pool.bB = i32(pool.bB); pool.bD = i32(pool.bD); pool.bP = i32(pool.bP);
-  pool.bL = f64(pool.bL); pool.bS = f64(pool.bS); pool.bM = f64(pool.bM);
+/** Where `a` lives in Wasm memory (its byte offset), or -1 when it is an ordinary array. */
+function wasmOffset(a: ArrayBufferView): number {
+  return a.buffer === kernels().memory.buffer ? a.byteOffset : -1;
 }
+
+type GraphKernels = SkeletonGraphKernelExports & { memory: WebAssembly.Memory };
 
 /** Builds the pixel graph of the skeleton, then prunes and merges it. */
 export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
-  const { width: w, height: h, phase, labels, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
+  const { width: w, height: h, phase, skeleton: sk, periodicX, periodicY, rule, quads } = input;
+  let { labels, distance } = input;
   const n = w * h;
   // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
   // each 8 j + the direction code of the step from i to j.
   const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
-  const deg = adj.degree, nbr = adj.neighbours, skelPixels = adj.list, skelCount = adj.count;
+  const count = adj.count;
   const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
-  const step = geometry.step, chords = geometry.chord;
-  // pixelOwner doubles as the walk's state: -1 not reached yet, -2 - node id on node pixels,
-  // the branch id on walked interior pixels.
+  // Offsets first: allocating below may grow Wasm memory and detach the views.
+  let degPtr = wasmOffset(adj.degree), nbrPtr = wasmOffset(adj.neighbours), listPtr = wasmOffset(adj.list);
+  const degCopy = degPtr < 0 ? adj.degree.slice(0, n) : undefined;
+  const nbrCopy = nbrPtr < 0 ? adj.neighbours.slice(0, 8 * n) : undefined;
+  const listCopy = listPtr < 0 ? adj.list.slice(0, count) : undefined;
+  const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(distance);
+  const distPtr = givenDistPtr >= 0 ? givenDistPtr : block("distance", 4 * n), geomPtr = block("geometry", 72 * 8);
+  const stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
+  const nodeCap = count + 1;
+  const nodesPtr = block("nodes", 12 * nodeCap);
+  if (degCopy) { degPtr = block("degree", n); viewU8(degPtr, n).set(degCopy); }
+  if (nbrCopy) { nbrPtr = block("neighbours", 32 * n); viewI32(nbrPtr, 8 * n).set(nbrCopy); }
+  if (listCopy) { listPtr = block("list", 4 * count + 4); viewI32(listPtr, count).set(listCopy); }
+  let branchCap = Math.max(64, 2 * count + 16);
+  let branchesPtr = block("branches", 40 * branchCap);
+  branchCap = Math.floor(blocks.get("branches")!.bytes / 40);
+  if (givenDistPtr < 0) viewF32(distPtr, n).set(distance.length === n ? distance : distance.subarray(0, n));
+  // (views given into Wasm memory: fresh views, in case it grew)
+  if (givenDistPtr >= 0) distance = viewF32(givenDistPtr, n);
+  if (labelsPtr >= 0) labels = viewI32(labelsPtr, n);
+  const gv = viewF64(geomPtr, 72);
+  gv.set(geometry.step.subarray(0, 8), 0);
+  gv.set(geometry.chord.subarray(0, 64), 8);
+  const k = kernels() as unknown as GraphKernels;
+  // Renumbered by skeleton index (raster order) first: the walk then reads arrays of the
+  // skeleton's size, not of the frame's.
+  const indexPtr = block("index", 4 * n), cnbrPtr = block("compactNeighbours", 32 * count + 32);
+  const cdegPtr = block("compactDegrees", count + 16), cdistPtr = block("compactDistance", 4 * count + 4);
+  const identPtr = block("identity", 4 * count + 4), cownerPtr = block("compactOwner", 4 * count + 4);
+  k.skeletonCompact(nbrPtr, degPtr, listPtr, count, distPtr, indexPtr, cnbrPtr, cdegPtr, cdistPtr, identPtr);
+  while (k.skeletonWalk(cnbrPtr, cdegPtr, identPtr, count, cdistPtr, cownerPtr, geomPtr, nodesPtr, nodeCap, branchesPtr, branchCap, stackPtr, outPtr) < 0) {
+    // More branches than room (at most one per adjacent pixel pair and one ring per pixel).
+    branchCap *= 2;
+    branchesPtr = block("branches", 40 * branchCap);
+    branchCap = Math.floor(blocks.get("branches")!.bytes / 40);
+  }
+  const counts = viewI32(outPtr, 2);
+  const nc = counts[0]!, bc = counts[1]!;
+  const list = viewI32(listPtr, count);
+  const nodeTable = viewI32(nodesPtr, 3 * nodeCap);
+  const nodePixel = new Int32Array(nc), nodeDegree = nodeTable.slice(2 * nodeCap, 2 * nodeCap + nc);
+  const nodeDomain = new Int32Array(nc), nodeHalf = new Float64Array(nc);
+  for (let v = 0; v < nc; v++) {
+    const p = list[nodeTable[v]!]!;
+    nodePixel[v] = p;
+    nodeDomain[v] = labels[list[nodeTable[nodeCap + v]!]!]!;
+    nodeHalf[v] = distance[p]!;
+  }
+  const bi = viewI32(branchesPtr, 4 * branchCap), bf = viewF64(branchesPtr + 16 * branchCap, 3 * branchCap);
+  const branchDomain = new Int32Array(bc);
+  for (let b = 0; b < bc; b++) branchDomain[b] = labels[list[bi[2 * branchCap + b]!]!]!;
+  // The owner of every skeleton pixel (the walk touched no other pixel).
   const owner = new Int32Array(n).fill(-1);
-  // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
-  reserveNodes(skelCount);
-  const nodePixel = pool.nodePixel, nodeDomain = pool.nodeDomain, nodeDegree = pool.nodeDegree, nodeHalf = pool.nodeHalf;
-  const stack = pool.stack;
-  let nc = 0;
-  for (let t = 0; t < skelCount; t++) {
-    const i = skelPixels[t]!;
-    if (owner[i] !== -1 || deg[i] === 2) continue;
-    const tag = -2 - nc;
-    let best = i;
-    owner[i] = tag;
-    if (deg[i]! >= 3) {
-      let sp = 0;
-      stack[sp++] = i;
-      while (sp > 0) {
-        const p = stack[--sp]!;
-        if (distance[p]! > distance[best]!) best = p;
-        const dp = deg[p]!, base = 8 * p;
-        for (let k = 0; k < dp; k++) {
-          const q = nbr[base + k]! >>> 3;
-          if (owner[q] === -1 && deg[q]! >= 3) { owner[q] = tag; stack[sp++] = q; }
-        }
-      }
-    }
-    nodePixel[nc] = best;
-    nodeDomain[nc] = labels[i]!;
-    nodeDegree[nc] = 0;
-    nodeHalf[nc] = distance[best]!;
-    nc++;
-  }
-  // Branches from every node pixel; interior pixels have degree 2.
-  let bc = 0;
-  growBranches(Math.max(64, nc));
-  let bA = pool.bA, bB = pool.bB, bD = pool.bD, bL = pool.bL, bS = pool.bS, bP = pool.bP, bM = pool.bM;
-  const room = () => {
-    growBranches(bc + 1);
-    bA = pool.bA; bB = pool.bB; bD = pool.bD; bL = pool.bL; bS = pool.bS; bP = pool.bP; bM = pool.bM;
-  };
-  for (let t = 0; t < skelCount; t++) {
-    const u = skelPixels[t]!;
-    const ou = owner[u]!;
-    if (ou > -2) continue;
-    const a = -2 - ou;
-    const du = deg[u]!;
-    for (let k = 0; k < du; k++) {
-      const e0 = nbr[8 * u + k]!;
-      const wpx = e0 >>> 3, d0 = e0 & 7;
-      const ow = owner[wpx]!;
-      if (ow <= -2) {
-        // Node pixel next to node pixel: a branch without interior (once, from the lower index).
-        const b0 = -2 - ow;
-        if (b0 === a || wpx < u) continue;
-        if (bc === pool.branchCap) room();
-        // (width from the end pixels only: the branch has no interior; end pixels weigh 1)
-        const eu = du === 1 ? 1 : 0, ew = deg[wpx] === 1 ? 1 : 0;
-        bA[bc] = a; bB[bc] = b0; bD[bc] = labels[u]!; bL[bc] = step[d0]!;
-        bS[bc] = eu * distance[u]! + ew * distance[wpx]!;
-        bP[bc] = eu + ew;
-        bM[bc] = Math.max(distance[u]!, distance[wpx]!);
-        bc++;
-        nodeDegree[a]!++; nodeDegree[b0]!++;
-        continue;
-      }
-      if (ow >= 0) continue; // walked already (from its other end)
-      let prev = u, cur = wpx, din = d0, len = step[d0]! / 2;
-      // Mean width from interior pixels (end pixels sit at the domain border, junctions widen).
-      let sum = 0, cnt = 0, mx = 0;
-      let b = -1;
-      while (true) {
-        owner[cur] = bc;
-        const dc = distance[cur]!;
-        sum += dc; cnt++;
-        if (dc > mx) mx = dc;
-        const n0 = nbr[8 * cur]!;
-        const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
-        const next = e >>> 3, dout = e & 7;
-        len += chords[8 * din + dout]!;
-        const on = owner[next]!;
-        if (on <= -2) {
-          b = -2 - on;
-          len += step[dout]! / 2;
-          break;
-        }
-        if (on >= 0) break; // cannot happen on a clean line; stop rather than loop
-        prev = cur; cur = next; din = dout;
-      }
-      if (b === -1) continue;
-      if (bc === pool.branchCap) room();
-      bA[bc] = a; bB[bc] = b; bD[bc] = labels[u]!; bL[bc] = len; bS[bc] = sum; bP[bc] = cnt; bM[bc] = mx;
-      bc++;
-      nodeDegree[a]!++; nodeDegree[b]!++;
-    }
-  }
-  // Rings: cycles of degree-2 pixels with no node.
-  for (let t = 0; t < skelCount; t++) {
-    const i = skelPixels[t]!;
-    if (owner[i] !== -1 || deg[i] !== 2) continue;
-    // Entered from the second neighbour: the step in is the one from it to i (as its own list has it).
-    const j = nbr[8 * i + 1]! >>> 3;
-    let din = 0;
-    for (let k = 0; k < deg[j]!; k++) {
-      const e = nbr[8 * j + k]!;
-      if (e >>> 3 === i) { din = e & 7; break; }
-    }
-    let prev = j, cur = i, len = 0, sum = 0, cnt = 0, mx = 0;
-    while (owner[cur]! < 0) {
-      owner[cur] = bc;
-      const dc = distance[cur]!;
-      sum += dc; cnt++;
-      if (dc > mx) mx = dc;
-      const n0 = nbr[8 * cur]!;
-      const e = n0 >>> 3 === prev ? nbr[8 * cur + 1]! : n0;
-      len += chords[8 * din + (e & 7)]!;
-      prev = cur; cur = e >>> 3; din = e & 7;
-    }
-    if (bc === pool.branchCap) room();
-    bA[bc] = -1; bB[bc] = -1; bD[bc] = labels[i]!; bL[bc] = len; bS[bc] = sum; bP[bc] = cnt; bM[bc] = mx;
-    bc++;
-  }
+  const ow = viewI32(cownerPtr, count);
+  for (let t = 0; t < count; t++) owner[list[t]!] = ow[t]!;
   const identity = (m: number) => { const a = new Int32Array(m); for (let i = 0; i < m; i++) a[i] = i; return a; };
   const g: SkeletonGraph = {
-    nodePixel: nodePixel.slice(0, nc), nodeDomain: nodeDomain.slice(0, nc),
-    nodeDegree: nodeDegree.slice(0, nc), nodeHalfWidth: nodeHalf.slice(0, nc),
-    branchA: bA.slice(0, bc), branchB: bB.slice(0, bc), branchDomain: bD.slice(0, bc),
-    branchLength: bL.slice(0, bc), branchSumDistance: bS.slice(0, bc),
-    branchPixels: bP.slice(0, bc), branchMaxDistance: bM.slice(0, bc), branchAlive: new Uint8Array(bc).fill(1),
+    nodePixel, nodeDomain, nodeDegree, nodeHalfWidth: nodeHalf,
+    branchA: bi.slice(0, bc), branchB: bi.slice(branchCap, branchCap + bc), branchDomain,
+    branchLength: bf.slice(0, bc), branchSumDistance: bf.slice(branchCap, branchCap + bc),
+    branchPixels: bi.slice(3 * branchCap, 3 * branchCap + bc), branchMaxDistance: bf.slice(2 * branchCap, 2 * branchCap + bc),
+    branchAlive: new Uint8Array(bc).fill(1),
     nodeCount: nc, branchCount: bc,
     pixelOwner: owner,
     branchParent: identity(bc),
