@@ -228,3 +228,53 @@ export function skeletonCompact(
     }
   }
 }
+
+/**
+ * The adjacency of skeletonNeighbours directly by skeleton index (the layout skeletonCompact
+ * gives), without the frame-sized neighbour lists: list (pixel of each index, raster order),
+ * cnbr[8 t + k] = 8 t' + direction (same order E, N, W, S, NE, NW, SW, SE), cdeg (u8), cdist
+ * (f32, from dst), ident[t] = t; `index` (i32 per pixel) is scratch. Returns the count.
+ */
+export function skeletonNeighboursCompact(
+  sk: usize, dst: usize, index: usize, list: usize, cnbr: usize, cdeg: usize, cdist: usize, ident: usize,
+): i32 {
+  const w = W, h = H;
+  const px = PX && w >= 3, py = PY && h >= 3;
+  let count = 0;
+  const n = w * h;
+  for (let i = 0; i < n; i++) {
+    if ((i & 7) == 0 && i + 8 <= n && load<u64>(sk + <usize>i) == 0) { i += 7; continue; }
+    if (load<u8>(sk + <usize>i) == 0) continue;
+    sti(index, i, count);
+    sti(list, count, i);
+    count++;
+  }
+  for (let t = 0; t < count; t++) {
+    const i = ldi(list, t);
+    const y = i / w, x = i - y * w;
+    const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
+    const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
+    const row = y * w, rm = ym * w, rp = yp * w;
+    const v = <i32>load<u8>(PH + <usize>i);
+    const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
+    const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
+    const base = cnbr + (<usize>t << 5);
+    let d = 0;
+    let j = 0;
+    if (xp >= 0) { j = row + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), ldi(index, j) << 3); d++; } }
+    if (ym >= 0) { j = rm + x; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d++; } }
+    if (xm >= 0) { j = row + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 2); d++; } }
+    if (yp >= 0) { j = rp + x; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d++; } }
+    // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y).
+    if (RULE == 2 || (RULE == 0) == (v == 1)) {
+      if (ym >= 0 && xp >= 0 && joinsDiagonal(v, rm + x)) { j = rm + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 4); d++; } }
+      if (ym >= 0 && xm >= 0 && joinsDiagonal(v, rm + xm)) { j = rm + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d++; } }
+      if (yp >= 0 && xm >= 0 && joinsDiagonal(v, row + xm)) { j = rp + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d++; } }
+      if (yp >= 0 && xp >= 0 && joinsDiagonal(v, i)) { j = rp + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d++; } }
+    }
+    store<u8>(cdeg + <usize>t, <u8>d);
+    store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
+    sti(ident, t, t);
+  }
+  return count;
+}

@@ -130,11 +130,10 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
-  const adjacency = ws.neighbours();
-  // (the graph may grow Wasm memory, which detaches views: keep where the pixel list is)
-  const listPtr = adjacency.list.byteOffset, listCount = adjacency.count;
+  const compactAdjacency = ws.compactNeighbours();
+  const listPtr = compactAdjacency.list, listCount = compactAdjacency.count;
   const graph = skeletonGraph(
-    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, adjacency },
+    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
   // Area, phase and largest distance of every domain, in one pass over the labels.

@@ -4,7 +4,7 @@
 // Pixels are adjacent as the domain's phase is connected: 4-neighbours always, a diagonal pair
 // where joinsDiagonal holds for its quad (the 8-phase: always; the 4-phase: never; saddle: per
 // quad). So the 4-phase's skeleton is a 4-connected line and its degrees count 4-adjacency.
-import { skeletonNeighbours, type ConnectivityRule, type SkeletonNeighbours } from "../wasm/skeleton";
+import { skeletonNeighbours, type ConnectivityRule, type SkeletonNeighbours, type CompactSkeletonNeighbours } from "../wasm/skeleton";
 import { kernels } from "../wasm/instance";
 import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32, viewF64 } from "../wasm/heap";
 import type { SkeletonGraphKernelExports } from "../wasm/exports";
@@ -28,6 +28,8 @@ export interface SkeletonGraphInput {
   quads?: Uint8Array;
   /** The skeleton's adjacency, when already at hand (SkeletonWorkspace.neighbours() after the run that gave `skeleton`). */
   adjacency?: SkeletonNeighbours;
+  /** The same by skeleton index (SkeletonWorkspace.compactNeighbours() after that run); used before `adjacency`. */
+  compactAdjacency?: CompactSkeletonNeighbours;
   /**
    * Step lengths and chords by direction code, for another grid than the square one (the
    * adjacency's codes index these tables). Without it: the square tables of
@@ -166,33 +168,51 @@ function wasmOffset(a: ArrayBufferView): number {
 
 type GraphKernels = SkeletonGraphKernelExports & { memory: WebAssembly.Memory };
 
-/** Builds the pixel graph of the skeleton, then prunes and merges it. */
-export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
-  const { width: w, height: h, phase, skeleton: sk, periodicX, periodicY, rule, quads } = input;
-  let { labels, distance } = input;
+/** The adjacency by skeleton index, from the input's pixel adjacency (or a fresh one). */
+function compactAdjacency(input: SkeletonGraphInput): CompactSkeletonNeighbours {
+  const { width: w, height: h, phase, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
   const n = w * h;
   // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
   // each 8 j + the direction code of the step from i to j.
   const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
   const count = adj.count;
-  const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
   // Offsets first: allocating below may grow Wasm memory and detach the views.
   let degPtr = wasmOffset(adj.degree), nbrPtr = wasmOffset(adj.neighbours), listPtr = wasmOffset(adj.list);
+  let distPtr = wasmOffset(distance);
   const degCopy = degPtr < 0 ? adj.degree.slice(0, n) : undefined;
   const nbrCopy = nbrPtr < 0 ? adj.neighbours.slice(0, 8 * n) : undefined;
   const listCopy = listPtr < 0 ? adj.list.slice(0, count) : undefined;
-  const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(distance);
-  const distPtr = givenDistPtr >= 0 ? givenDistPtr : block("distance", 4 * n), geomPtr = block("geometry", 72 * 8);
-  const stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
-  const nodeCap = count + 1;
-  const nodesPtr = block("nodes", 12 * nodeCap);
+  const distCopy = distPtr < 0 ? distance.subarray(0, n) : undefined;
   if (degCopy) { degPtr = block("degree", n); viewU8(degPtr, n).set(degCopy); }
   if (nbrCopy) { nbrPtr = block("neighbours", 32 * n); viewI32(nbrPtr, 8 * n).set(nbrCopy); }
   if (listCopy) { listPtr = block("list", 4 * count + 4); viewI32(listPtr, count).set(listCopy); }
+  if (distCopy) { distPtr = block("distance", 4 * n); viewF32(distPtr, n).set(distCopy); }
+  const c: CompactSkeletonNeighbours = {
+    count, list: listPtr,
+    neighbours: block("compactNeighbours", 32 * count + 32), degree: block("compactDegrees", count + 16),
+    distance: block("compactDistance", 4 * count + 4), identity: block("identity", 4 * count + 4),
+  };
+  const index = block("index", 4 * n);
+  (kernels() as unknown as GraphKernels).skeletonCompact(nbrPtr, degPtr, listPtr, count, distPtr, index, c.neighbours, c.degree, c.distance, c.identity);
+  return c;
+}
+
+/** Builds the pixel graph of the skeleton, then prunes and merges it. */
+export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
+  const { width: w, height: h, periodicX, periodicY } = input;
+  let { labels, distance } = input;
+  const n = w * h;
+  const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
+  // Offsets first: allocating below may grow Wasm memory and detach the views.
+  const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(distance);
+  const c = input.compactAdjacency ?? compactAdjacency(input);
+  const count = c.count;
+  const geomPtr = block("geometry", 72 * 8), stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
+  const nodeCap = count + 1;
+  const nodesPtr = block("nodes", 12 * nodeCap), ownerPtr = block("compactOwner", 4 * count + 4);
   let branchCap = Math.max(64, 2 * count + 16);
   let branchesPtr = block("branches", 40 * branchCap);
   branchCap = Math.floor(blocks.get("branches")!.bytes / 40);
-  if (givenDistPtr < 0) viewF32(distPtr, n).set(distance.length === n ? distance : distance.subarray(0, n));
   // (views given into Wasm memory: fresh views, in case it grew)
   if (givenDistPtr >= 0) distance = viewF32(givenDistPtr, n);
   if (labelsPtr >= 0) labels = viewI32(labelsPtr, n);
@@ -200,13 +220,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   gv.set(geometry.step.subarray(0, 8), 0);
   gv.set(geometry.chord.subarray(0, 64), 8);
   const k = kernels() as unknown as GraphKernels;
-  // Renumbered by skeleton index (raster order) first: the walk then reads arrays of the
-  // skeleton's size, not of the frame's.
-  const indexPtr = block("index", 4 * n), cnbrPtr = block("compactNeighbours", 32 * count + 32);
-  const cdegPtr = block("compactDegrees", count + 16), cdistPtr = block("compactDistance", 4 * count + 4);
-  const identPtr = block("identity", 4 * count + 4), cownerPtr = block("compactOwner", 4 * count + 4);
-  k.skeletonCompact(nbrPtr, degPtr, listPtr, count, distPtr, indexPtr, cnbrPtr, cdegPtr, cdistPtr, identPtr);
-  while (k.skeletonWalk(cnbrPtr, cdegPtr, identPtr, count, cdistPtr, cownerPtr, geomPtr, nodesPtr, nodeCap, branchesPtr, branchCap, stackPtr, outPtr) < 0) {
+  while (k.skeletonWalk(c.neighbours, c.degree, c.identity, count, c.distance, ownerPtr, geomPtr, nodesPtr, nodeCap, branchesPtr, branchCap, stackPtr, outPtr) < 0) {
     // More branches than room (at most one per adjacent pixel pair and one ring per pixel).
     branchCap *= 2;
     branchesPtr = block("branches", 40 * branchCap);
@@ -214,7 +228,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   }
   const counts = viewI32(outPtr, 2);
   const nc = counts[0]!, bc = counts[1]!;
-  const list = viewI32(listPtr, count);
+  const list = viewI32(c.list, count);
   const nodeTable = viewI32(nodesPtr, 3 * nodeCap);
   const nodePixel = new Int32Array(nc), nodeDegree = nodeTable.slice(2 * nodeCap, 2 * nodeCap + nc);
   const nodeDomain = new Int32Array(nc), nodeHalf = new Float64Array(nc);
@@ -229,7 +243,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   for (let b = 0; b < bc; b++) branchDomain[b] = labels[list[bi[2 * branchCap + b]!]!]!;
   // The owner of every skeleton pixel (the walk touched no other pixel).
   const owner = new Int32Array(n).fill(-1);
-  const ow = viewI32(cownerPtr, count);
+  const ow = viewI32(ownerPtr, count);
   for (let t = 0; t < count; t++) owner[list[t]!] = ow[t]!;
   const identity = (m: number) => { const a = new Int32Array(m); for (let i = 0; i < m; i++) a[i] = i; return a; };
   const g: SkeletonGraph = {

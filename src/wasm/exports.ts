@@ -59,6 +59,10 @@ export interface SkeletonGraphKernelExports {
     neighbours: number, degrees: number, list: number, count: number, distance: number, owner: number, geometry: number,
     nodes: number, nodeCap: number, branches: number, branchCap: number, stack: number, out: number,
   ): number;
+  skeletonNeighboursCompact(
+    skeleton: number, distance: number, index: number, list: number,
+    compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
+  ): number;
   skeletonCompact(
     neighbours: number, degrees: number, list: number, count: number, distance: number, index: number,
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
