@@ -2,8 +2,7 @@
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
 import { kernels } from "../wasm/instance";
-import { viewI32 } from "../wasm/heap";
-import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
+import { skeletonGraph, prunedSkeletonLater, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
 export type SkeletonBoundary = "open" | "periodic" | "periodic-x" | "periodic-y";
@@ -53,7 +52,7 @@ export interface SkeletonAnalysis {
   down: PhaseSkeletonSummary;
   /** 1 on the skeleton of each pixel's phase, as thinned (copy). */
   skeleton: Uint8Array;
-  /** 1 on the skeleton pixels that survive spur pruning. */
+  /** 1 on the skeleton pixels that survive spur pruning (made on first read). */
   pruned: Uint8Array;
   /** Distance to the other phase, px (copy). */
   distance: Float32Array;
@@ -131,7 +130,6 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
   const compactAdjacency = ws.compactNeighbours();
-  const listPtr = compactAdjacency.list, listCount = compactAdjacency.count;
   const graph = skeletonGraph(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
@@ -140,14 +138,22 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
   const bad = domainTotals(labels, phase, distance, count, area, maxD, domainPhase);
   if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
-  const pruned = prunedSkeleton(graph, viewI32(listPtr, listCount), listCount);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
-  return {
+  const out = {
     options: o, columns,
     up: summarizePhase(columns, domainPhase, area, 1, n, o.pixelSize),
     down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
-    skeleton, pruned, distance, graph,
+    skeleton, pruned: undefined as unknown as Uint8Array, distance, graph,
   };
+  // The pruned skeleton as the graph is now, its pixels made on first read (assignable).
+  const later = prunedSkeletonLater(graph);
+  let pruned: Uint8Array | undefined;
+  Object.defineProperty(out, "pruned", {
+    enumerable: true, configurable: true,
+    get: () => (pruned ??= later()),
+    set: (v: Uint8Array) => { pruned = v; },
+  });
+  return out;
 }
 
 /** Per-domain pixel count, phase and largest distance; returns the first pixel with a label outside 1..count (-1 if none). */

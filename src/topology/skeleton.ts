@@ -72,7 +72,7 @@ export interface SkeletonGraph {
   branchAlive: Uint8Array;
   nodeCount: number;
   branchCount: number;
-  /** Per skeleton pixel: branch id (>= 0), -2 - node id for node pixels, -1 elsewhere. */
+  /** Per skeleton pixel: branch id (>= 0), -2 - node id for node pixels, -1 elsewhere (filled in on first read). */
   pixelOwner: Int32Array;
   /** A dead branch or node that was folded into another points at it (itself otherwise). */
   branchParent: Int32Array;
@@ -94,8 +94,14 @@ function follow(parent: Int32Array, i: number): number {
  * visited (every other pixel is 0 anyway).
  */
 export function prunedSkeleton(g: SkeletonGraph, pixels?: ArrayLike<number>, count?: number): Uint8Array {
-  const owner = g.pixelOwner;
-  const out = new Uint8Array(owner.length);
+  return prunedSkeletonLater(g, pixels, count)();
+}
+
+/**
+ * prunedSkeleton decided now (which branches and nodes survive), its pixels made when the
+ * returned function is first called (later changes to the graph do not change it).
+ */
+export function prunedSkeletonLater(g: SkeletonGraph, pixels?: ArrayLike<number>, count?: number): () => Uint8Array {
   // Whether each branch's and node's pixels survive, decided once per branch and node.
   const keepBranch = new Uint8Array(g.branchCount), keepNode = new Uint8Array(g.nodeCount);
   for (let b = 0; b < g.branchCount; b++) {
@@ -108,14 +114,32 @@ export function prunedSkeleton(g: SkeletonGraph, pixels?: ArrayLike<number>, cou
     const into = g.nodeIntoBranch[r]!;
     keepNode[v] = g.nodeDegree[r]! >= 0 || (into >= 0 && g.branchAlive[follow(g.branchParent, into)]) ? 1 : 0;
   }
-  const m = pixels ? (count ?? pixels.length) : owner.length;
-  for (let t = 0; t < m; t++) {
-    const i = pixels ? pixels[t]! : t;
-    const o = owner[i]!;
-    if (o >= 0) out[i] = keepBranch[o] ?? 0;
-    else if (o !== -1) out[i] = keepNode[-2 - o]!;
+  const keep = (o: number): number => (o >= 0 ? keepBranch[o] ?? 0 : o !== -1 ? keepNode[-2 - o]! : 0);
+  const known = ownersOf.get(g);
+  let out: Uint8Array | undefined;
+  if (known) {
+    // A graph made here: owners by skeleton pixel, no frame-sized pass.
+    return () => {
+      if (!out) {
+        out = new Uint8Array(known.n);
+        for (let t = 0; t < known.pixels.length; t++) out[known.pixels[t]!] = keep(known.owners[t]!);
+      }
+      return out;
+    };
   }
-  return out;
+  const owner = g.pixelOwner.slice();
+  const list = pixels ? Int32Array.from({ length: count ?? pixels.length }, (_v, t) => pixels[t]!) : undefined;
+  return () => {
+    if (!out) {
+      out = new Uint8Array(owner.length);
+      const m = list ? list.length : owner.length;
+      for (let t = 0; t < m; t++) {
+        const i = list ? list[t]! : t;
+        out[i] = keep(owner[i]!);
+      }
+    }
+    return out;
+  };
 }
 
 // Square grid: direction codes of the adjacency kernel 0..7 = E, N, W, S, NE, NW, SW, SE (y
@@ -241,10 +265,9 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const bi = viewI32(branchesPtr, 4 * branchCap), bf = viewF64(branchesPtr + 16 * branchCap, 3 * branchCap);
   const branchDomain = new Int32Array(bc);
   for (let b = 0; b < bc; b++) branchDomain[b] = labels[list[bi[2 * branchCap + b]!]!]!;
-  // The owner of every skeleton pixel (the walk touched no other pixel).
-  const owner = new Int32Array(n).fill(-1);
-  const ow = viewI32(ownerPtr, count);
-  for (let t = 0; t < count; t++) owner[list[t]!] = ow[t]!;
+  // The owner of every skeleton pixel (the walk touched no other pixel), kept by skeleton index;
+  // the frame-sized pixelOwner is filled in on first use.
+  const skeletonOwners = { pixels: list.slice(), owners: viewI32(ownerPtr, count).slice() };
   const identity = (m: number) => { const a = new Int32Array(m); for (let i = 0; i < m; i++) a[i] = i; return a; };
   const g: SkeletonGraph = {
     nodePixel, nodeDomain, nodeDegree, nodeHalfWidth: nodeHalf,
@@ -253,14 +276,35 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
     branchPixels: bi.slice(3 * branchCap, 3 * branchCap + bc), branchMaxDistance: bf.slice(2 * branchCap, 2 * branchCap + bc),
     branchAlive: new Uint8Array(bc).fill(1),
     nodeCount: nc, branchCount: bc,
-    pixelOwner: owner,
+    pixelOwner: undefined as unknown as Int32Array,
     branchParent: identity(bc),
     nodeParent: identity(nc),
     branchIntoNode: new Int32Array(bc).fill(-1),
     nodeIntoBranch: new Int32Array(nc).fill(-1),
   };
+  lazyPixelOwner(g, n, skeletonOwners);
   simplify(g, options);
   return g;
+}
+
+// Owners by skeleton pixel of the graphs made here (prunedSkeleton reads them instead of the frame).
+const ownersOf = new WeakMap<SkeletonGraph, { n: number; pixels: Int32Array; owners: Int32Array }>();
+
+/** pixelOwner as an enumerable property filled in on first read (assignable like a field). */
+function lazyPixelOwner(g: SkeletonGraph, n: number, o: { pixels: Int32Array; owners: Int32Array }): void {
+  ownersOf.set(g, { n, ...o });
+  let full: Int32Array | undefined;
+  Object.defineProperty(g, "pixelOwner", {
+    enumerable: true, configurable: true,
+    get(): Int32Array {
+      if (!full) {
+        full = new Int32Array(n).fill(-1);
+        for (let t = 0; t < o.pixels.length; t++) full[o.pixels[t]!] = o.owners[t]!;
+      }
+      return full;
+    },
+    set(v: Int32Array) { full = v; ownersOf.delete(g); },
+  });
 }
 
 // Scratch of simplify, kept between calls: the node -> branch incidence as linked lists in

@@ -161,6 +161,14 @@ describe("fast skeleton graph against the frozen reference", () => {
     // Other shapes and sizes in between, then compare the kept results again.
     for (const c of all.filter((_c, i) => i % 13 === 5)) runCase(c);
     for (const { c, a, ref } of kept) compare(`${c.tag} (kept)`, a, ref);
+    // pixelOwner and pruned are filled in on first read: still plain enumerable data to a copy.
+    for (const { c, a, ref } of kept.slice(0, 5)) {
+      const copy = structuredClone({ graph: a.graph, pruned: a.pruned });
+      sameArray(`${c.tag} cloned pixelOwner`, copy.graph.pixelOwner, ref.graph.pixelOwner);
+      sameArray(`${c.tag} cloned pruned`, copy.pruned, ref.pruned);
+      expect(Object.keys(a)).toContain("pruned");
+      expect(Object.keys(a.graph)).toContain("pixelOwner");
+    }
   }, 120_000);
 
   it("uses a given direction geometry instead of the square tables", () => {
