@@ -192,8 +192,8 @@ function wasmOffset(a: ArrayBufferView): number {
 
 type GraphKernels = SkeletonGraphKernelExports & { memory: WebAssembly.Memory };
 
-/** The adjacency by skeleton index, from the input's pixel adjacency (or a fresh one). */
-function compactAdjacency(input: SkeletonGraphInput): CompactSkeletonNeighbours {
+/** The adjacency by skeleton index, from the input's pixel adjacency (or a fresh one); `givenDistPtr`: where the distance map is in Wasm memory, or -1. */
+function compactAdjacency(input: SkeletonGraphInput, givenDistPtr: number): CompactSkeletonNeighbours {
   const { width: w, height: h, phase, skeleton: sk, distance, periodicX, periodicY, rule, quads } = input;
   const n = w * h;
   // Neighbour lists of skeleton pixels (Wasm), packed: for pixel i, nbr[8i .. 8i + deg - 1],
@@ -202,7 +202,7 @@ function compactAdjacency(input: SkeletonGraphInput): CompactSkeletonNeighbours 
   const count = adj.count;
   // Offsets first: allocating below may grow Wasm memory and detach the views.
   let degPtr = wasmOffset(adj.degree), nbrPtr = wasmOffset(adj.neighbours), listPtr = wasmOffset(adj.list);
-  let distPtr = wasmOffset(distance);
+  let distPtr = givenDistPtr;
   const degCopy = degPtr < 0 ? adj.degree.slice(0, n) : undefined;
   const nbrCopy = nbrPtr < 0 ? adj.neighbours.slice(0, 8 * n) : undefined;
   const listCopy = listPtr < 0 ? adj.list.slice(0, count) : undefined;
@@ -229,7 +229,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
   // Offsets first: allocating below may grow Wasm memory and detach the views.
   const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(distance);
-  const c = input.compactAdjacency ?? compactAdjacency(input);
+  const c = input.compactAdjacency ?? compactAdjacency(input, givenDistPtr);
   const count = c.count;
   const geomPtr = block("geometry", 72 * 8), stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
   const nodeCap = count + 1;
