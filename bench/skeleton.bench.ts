@@ -156,13 +156,14 @@ for (const size of sizes) {
     // analyzeSkeletons on a workspace whose run hands back the last run's buffers: everything
     // the call does besides thinning (adjacency, graph, classification, summaries, copies).
     const q = ws as unknown as { sk: number; dist: number };
-    const rerun = {
-      width: size, height: size, neighbours: () => ws.neighbours(),
-      run: () => {
-        const mem = m.instance.kernels().memory.buffer;
-        return { skeleton: new Uint8Array(mem, q.sk, size * size), distance: new Float32Array(mem, q.dist, size * size), blocksLeft: 0 };
+    const rerun = Object.create(ws, {
+      run: {
+        value: () => {
+          const mem = m.instance.kernels().memory.buffer;
+          return { skeleton: new Uint8Array(mem, q.sk, size * size), distance: new Float32Array(mem, q.dist, size * size), blocksLeft: 0 };
+        },
       },
-    } as unknown as typeof ws;
+    }) as typeof ws;
     ws.run(phase, geometry);
     add(`${size} ${side} analyzeSkeletons without the run`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, rerun); });
   }
