@@ -242,8 +242,19 @@ export function skeletonNeighboursCompact(
   const px = PX && w >= 3, py = PY && h >= 3;
   let count = 0;
   const n = w * h;
-  for (let i = 0; i < n; i++) {
-    if ((i & 7) == 0 && i + 8 <= n && load<u64>(sk + <usize>i) == 0) { i += 7; continue; }
+  // Eight pixels at a time: the nonzero bytes of a word, lowest first (raster order).
+  const n8 = n & ~7;
+  for (let i = 0; i < n8; i += 8) {
+    let m = load<u64>(sk + <usize>i);
+    while (m != 0) {
+      const b = <i32>(ctz<u64>(m) >> 3);
+      m &= ~(<u64>0xff << (<u64>b << 3));
+      sti(index, i + b, count);
+      sti(list, count, i + b);
+      count++;
+    }
+  }
+  for (let i = n8; i < n; i++) {
     if (load<u8>(sk + <usize>i) == 0) continue;
     sti(index, i, count);
     sti(list, count, i);
