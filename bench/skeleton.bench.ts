@@ -4,7 +4,8 @@
 // a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
 // Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the thinning
 // alone (that run minus the distance map of the same round), the skeleton graph (from a thinned
-// frame), and the whole analyzeSkeletons call (the total).
+// frame), the whole analyzeSkeletons call (the total), and analyzeSkeletons without the run
+// (on the last run's buffers: adjacency, graph, classification, summaries).
 //
 // The machine is usually shared: candidates are timed in interleaved rounds (every candidate
 // once per round, rotated order), each ratio is taken within a round, and medians over rounds
@@ -114,7 +115,7 @@ const sides: Array<[string, Side]> = [
   ["before", { wasm: beforeWasm, instance: beforeInstance, graph: beforeGraph, analysis: beforeAnalysis }],
   ["after", { wasm: afterWasm, instance: afterInstance, graph: afterGraph, analysis: afterAnalysis }],
 ];
-const PASSES = ["distance", "thinning + distance", "graph", "thinning + graph + classification"] as const;
+const PASSES = ["distance", "thinning + distance", "graph", "thinning + graph + classification", "analyzeSkeletons without the run"] as const;
 
 const sizes = quick ? [512] : [512, 1024];
 const candidates: Candidate[] = [];
@@ -152,6 +153,19 @@ for (const size of sizes) {
     add(`${size} ${side} thinning + distance`, () => { ws.run(phase, geometry); });
     add(`${size} ${side} graph`, () => { m.graph.skeletonGraph(input, { spurFactor: 3, junctionMergeFactor: 1 }); });
     add(`${size} ${side} thinning + graph + classification`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws); });
+    // analyzeSkeletons on a workspace whose run hands back the last run's buffers: everything
+    // the call does besides thinning (adjacency, graph, classification, summaries, copies).
+    const q = ws as unknown as { sk: number; dist: number };
+    const rerun = Object.create(ws, {
+      run: {
+        value: () => {
+          const mem = m.instance.kernels().memory.buffer;
+          return { skeleton: new Uint8Array(mem, q.sk, size * size), distance: new Float32Array(mem, q.dist, size * size), blocksLeft: 0 };
+        },
+      },
+    }) as typeof ws;
+    ws.run(phase, geometry);
+    add(`${size} ${side} analyzeSkeletons without the run`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, rerun); });
   }
   console.log(`${size} x ${size} periodic maze, ${count} domains; ${summary.join("; ")}`);
   const img = new Uint8Array(size * size), del = new Int32Array(size * size);

@@ -2,7 +2,7 @@
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
 import { kernels } from "../wasm/instance";
-import { skeletonGraph, prunedSkeleton, type SkeletonGraph } from "./skeleton";
+import { skeletonGraph, prunedSkeletonLater, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
 export type SkeletonBoundary = "open" | "periodic" | "periodic-x" | "periodic-y";
@@ -52,7 +52,7 @@ export interface SkeletonAnalysis {
   down: PhaseSkeletonSummary;
   /** 1 on the skeleton of each pixel's phase, as thinned (copy). */
   skeleton: Uint8Array;
-  /** 1 on the skeleton pixels that survive spur pruning. */
+  /** 1 on the skeleton pixels that survive spur pruning (made on first read). */
   pruned: Uint8Array;
   /** Distance to the other phase, px (copy). */
   distance: Float32Array;
@@ -129,26 +129,56 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
   const skeleton = r.skeleton.slice(), distance = r.distance.slice();
-  const adjacency = ws.neighbours();
+  const compactAdjacency = ws.compactNeighbours();
   const graph = skeletonGraph(
-    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, adjacency },
+    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
+  // Area, phase and largest distance of every domain, in one pass over the labels.
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
-  let badAt = -1;
-  for (let i = 0; i < n; i++) {
-    const d = labels[i]! - 1;
-    if (d < 0 || d >= count) { badAt = i; break; }
-    area[d]!++;
-    domainPhase[d] = phase[i]! ? 1 : 0;
-    if (distance[i]! > maxD[d]!) maxD[d] = distance[i]!;
-  }
-  if (badAt >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[badAt]} at pixel ${badAt}`);
+  const bad = domainTotals(labels, phase, distance, count, area, maxD, domainPhase);
+  if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
-  return {
+  const out = {
     options: o, columns,
     up: summarizePhase(columns, domainPhase, area, 1, n, o.pixelSize),
     down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
-    skeleton, pruned: prunedSkeleton(graph), distance, graph,
+    skeleton, pruned: undefined as unknown as Uint8Array, distance, graph,
   };
+  // The pruned skeleton as the graph is now, its pixels made on first read (assignable).
+  const later = prunedSkeletonLater(graph);
+  let pruned: Uint8Array | undefined;
+  Object.defineProperty(out, "pruned", {
+    enumerable: true, configurable: true,
+    get: () => (pruned ??= later()),
+    set: (v: Uint8Array) => { pruned = v; },
+  });
+  return out;
+}
+
+/** Per-domain pixel count, phase and largest distance; returns the first pixel with a label outside 1..count (-1 if none). */
+function domainTotals(
+  labels: Int32Array, phase: Uint8Array, distance: Float32Array, count: number,
+  area: Float64Array, maxD: Float64Array, domainPhase: Uint8Array,
+): number {
+  const n = labels.length;
+  const pixels = new Int32Array(count);
+  // Run by run of one label: one update per run (the last pixel's phase wins, as per pixel).
+  let i = 0;
+  while (i < n) {
+    const l = labels[i]!, d = l - 1;
+    if (d < 0 || d >= count) return i;
+    let m = maxD[d]!, j = i;
+    do {
+      const v = distance[j]!;
+      if (v > m) m = v;
+      j++;
+    } while (j < n && labels[j] === l);
+    pixels[d]! += j - i;
+    maxD[d] = m;
+    domainPhase[d] = phase[j - 1]! ? 1 : 0;
+    i = j;
+  }
+  for (let d = 0; d < count; d++) area[d] = pixels[d]!;
+  return -1;
 }

@@ -55,7 +55,19 @@ export interface SkeletonKernelExports {
   distancePhases(out: number, vertical: number, scratch: number, cap: number): void;
 }
 
-// Skeleton pixel adjacency (assembly/skeleton-graph.ts).
+// Skeleton pixel adjacency and the walk of the skeleton graph (assembly/skeleton-graph.ts).
 export interface SkeletonGraphKernelExports {
   skeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
+  skeletonWalk(
+    neighbours: number, degrees: number, list: number, count: number, distance: number, owner: number, geometry: number,
+    nodes: number, nodeCap: number, branches: number, branchCap: number, stack: number, out: number,
+  ): number;
+  skeletonNeighboursCompact(
+    skeleton: number, distance: number, index: number, list: number,
+    compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
+  ): number;
+  skeletonCompact(
+    neighbours: number, degrees: number, list: number, count: number, distance: number, index: number,
+    compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
+  ): void;
 }

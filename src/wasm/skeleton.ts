@@ -53,6 +53,7 @@ export class SkeletonWorkspace {
   private readonly bits: number;
   private disposed = false;
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
+  private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number } | undefined;
   private lastGeometry: ThinGeometry | undefined;
 
   constructor(width: number, height: number) {
@@ -119,11 +120,36 @@ export class SkeletonWorkspace {
     return adjacencyOf(this.width, this.height, g, this.ph, this.sk, this.qm, a.deg, a.list, a.nbr);
   }
 
+  /**
+   * The same adjacency as `neighbours()`, numbered by skeleton index (raster order) and with
+   * each skeleton pixel's distance, without the frame-sized neighbour lists (the skeleton
+   * graph's input). Pointers into Wasm memory: valid until the next call.
+   */
+  compactNeighbours(): CompactSkeletonNeighbours {
+    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
+    const g = this.lastGeometry;
+    if (!g) throw new Error("domtopo: SkeletonWorkspace.compactNeighbours() needs a run first");
+    const { width, height } = this;
+    const n = width * height;
+    // Sized for a skeleton of every pixel (a thinned frame has far fewer; 42 bytes a pixel).
+    this.compactBuffers ??= {
+      index: wasmAlloc(4 * n), list: wasmAlloc(4 * n), neighbours: wasmAlloc(32 * n), degree: wasmAlloc(n),
+      distance: wasmAlloc(4 * n), identity: wasmAlloc(4 * n),
+    };
+    const c = this.compactBuffers;
+    const k = kernels() as K & SkeletonGraphKernelExports;
+    k.setGeometry(width, height, g.periodicX ? 1 : 0, g.periodicY ? 1 : 0, g.rule);
+    k.setBuffers(this.ph, 0, 0, this.qm);
+    const count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity);
+    return { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
+  }
+
   /** Returns the workspace's memory to the heap. */
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
     if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
+    if (this.compactBuffers) for (const p of Object.values(this.compactBuffers)) wasmFree(p);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts, this.bits]) wasmFree(p);
   }
 }
@@ -153,6 +179,21 @@ export interface SkeletonNeighbours {
   degree: Uint8Array;
   /** For pixel i: 8 j + direction (0..7 = E, N, W, S, NE, NW, SW, SE) at [8 i, 8 i + degree[i]). */
   neighbours: Int32Array;
+}
+
+/**
+ * Skeleton adjacency by skeleton index t (raster order), as byte offsets into Wasm memory (valid
+ * until the next call): list (i32, the pixel of each index), neighbours (i32, 8 per index:
+ * 8 t' + direction code, as SkeletonNeighbours), degree (u8), distance (f32, the pixel's
+ * distance to the other phase), identity (i32, t at t).
+ */
+export interface CompactSkeletonNeighbours {
+  count: number;
+  list: number;
+  neighbours: number;
+  degree: number;
+  distance: number;
+  identity: number;
 }
 
 let adjacency: { n: number; ph: number; sk: number; qm: number; deg: number; list: number; nbr: number } | undefined;
