@@ -283,11 +283,10 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         files_["frames.csv"]!.write(csvLine(row.map(([, v]) => v)));
         files_["frames.ndjson"]!.write(JSON.stringify(Object.fromEntries(row.map(([k, v]) =>
           [k, typeof v === "number" && !Number.isFinite(v) ? null : v]))) + "\n");
-        if (files_["domains.csv"] && r.domainRows) {
-          const leadCells = lead.map(([, v]) => v);
-          let text = "";
-          for (const d of r.domainRows) text += csvLine([...leadCells, ...d]);
-          files_["domains.csv"].write(text);
+        if (files_["domains.csv"] && r.domainCsv) {
+          // Every line of the frame's rows gets the lead cells (domain cells hold no line breaks).
+          const leadText = csvLine(lead.map(([, v]) => v)).slice(0, -1) + ",";
+          files_["domains.csv"].write(r.domainCsv.replace(/^(?=.)/gm, () => leadText));
         }
       }
       done = index + 1;

@@ -3,7 +3,7 @@
 import type { Frame } from "../types";
 import { FrameAnalyzer } from "../topology/analyze";
 import type { FrameOptions } from "../topology/options";
-import { frameRow, domainRows, type Cell } from "../topology/rows";
+import { frameRow, domainRows, csvLine, type Cell } from "../topology/rows";
 import { encodeRgbaPng } from "../io/png";
 import { Preprocessor, type PreprocessOptions } from "../prep/preprocess";
 
@@ -39,7 +39,8 @@ export interface FrameJobResult {
   width: number;
   height: number;
   row: Array<[string, Cell]>;
-  domainRows?: Cell[][];
+  /** The frame's rows of the domain table as CSV lines (without the lead cells the run adds). */
+  domainCsv?: string;
   tracking?: TrackingInput;
   overlayPng?: Uint8Array;
   spectrumPng?: Uint8Array;
@@ -83,7 +84,12 @@ export function runFrameJob(
   const analyzer = cache.get(frame.width, frame.height);
   const r = analyzer.analyze(frame, { ...options.frame, keepLabels: Boolean(options.tracking) }, where);
   const out: FrameJobResult = { index, where, width: frame.width, height: frame.height, row: frameRow(r) };
-  if (options.domains) out.domainRows = domainRows(r);
+  if (options.domains) {
+    // Written here, in the worker, so the thread that writes the tables only prefixes lines.
+    let text = "";
+    for (const d of domainRows(r)) text += csvLine(d);
+    out.domainCsv = text;
+  }
   if (options.overlay && index % options.overlay.every === 0 && r.skeleton) {
     const img = analyzer.overlay({ scale: options.overlay.scale });
     out.overlayPng = encodeRgbaPng(img.width, img.height, img.rgba);

@@ -114,7 +114,16 @@ export function domainRows(r: FrameResult): Cell[][] {
 export function csvCell(v: Cell): string {
   if (typeof v === "number") {
     if (Number.isInteger(v)) return String(v);
-    return Number.isFinite(v) ? String(Number(v.toPrecision(10))) : "";
+    if (!Number.isFinite(v)) return "";
+    // 10 significant digits, written as String(Number(v.toPrecision(10))) would write them: in
+    // fixed notation that is the digits without trailing zeros (no exponent form is shortened).
+    const s = v.toPrecision(10);
+    if (s.includes("e")) return String(Number(s));
+    if (!s.includes(".")) return s; // ten digits before the point
+    let end = s.length;
+    while (s.charCodeAt(end - 1) === 48) end--; // '0'
+    if (s.charCodeAt(end - 1) === 46) end--; // '.'
+    return s.slice(0, end);
   }
   return /[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
 }
