@@ -567,12 +567,12 @@ let flagsReady: bool = false;
 /** Copies row `src` into `slot` with its E and W shifts (bit x = pixel x + 1, x - 1). */
 function fillSlot(slot: usize, src: usize): void {
   const rb = RB, wp = WP, e = slot + rb, wv = slot + 2 * rb;
-  memory.copy(slot, src, rb);
   for (let k = 0; k < wp; k += 2) {
     const off = <usize>k << 3;
-    const a = v128.load(slot + off);
-    const nx = v128.load(slot + off + 8); // words k + 1, k + 2 (the last pair's is fixed below)
-    const pv = v128.load(slot + off - 8); // words k - 1, k (the first pair's is fixed below)
+    const a = v128.load(src + off);
+    const nx = v128.load(src + off + 8); // words k + 1, k + 2 (the last pair's is fixed below)
+    const pv = v128.load(src + off - 8); // words k - 1, k (the first pair's is fixed below)
+    v128.store(slot + off, a);
     v128.store(e + off, v128.or(i64x2.shr_u(a, 1), i64x2.shl(nx, 63)));
     v128.store(wv + off, v128.or(i64x2.shl(a, 1), i64x2.shr_u(pv, 63)));
   }
@@ -608,7 +608,7 @@ function slotFor(plane: usize, vr: i32): usize {
  */
 function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32): bool {
   const h = H, wp = WP, rb = RB;
-  if (WY) memory.copy(ROW0, plane, rb);
+  if (WY) for (let k = 0; k < wp; k += 2) v128.store(ROW0 + (<usize>k << 3), v128.load(plane + (<usize>k << 3)));
   for (let s = 0; s < 3; s++) store<i32>(SLOTTAG + (<usize>s << 2), i32.MIN_VALUE);
   const ones = i64x2.splat(-1), zero = i64x2.splat(0);
   const mN = mode == 0 ? ones : zero, mS = mode == 1 ? ones : zero;
