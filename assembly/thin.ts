@@ -454,9 +454,10 @@ export function thinPhase(v: i32): i32 {
 
 /** Clears the work bits of SK, leaving 1 on skeleton pixels (call after both phases, up first). */
 export function thinFinish(n: i32): void {
-  for (let i = 0; i < n; i++) {
-    store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) & 1));
-  }
+  const one = i8x16.splat(1);
+  let i = 0;
+  for (; i + 16 <= n; i += 16) v128.store(SK + <usize>i, v128.and(v128.load(SK + <usize>i), one));
+  for (; i < n; i++) store<u8>(SK + <usize>i, <u8>(<i32>load<u8>(SK + <usize>i) & 1));
 }
 
 /**
@@ -534,12 +535,12 @@ let WP: i32 = 0; // words per row (even: rows are whole v128 pairs)
 let RB: usize = 0; // bytes per row
 let PLANE1: usize = 0;
 let PLANE0: usize = 0;
-let SLOTS: usize = 0; // three row slots: old row, its E shift, its W shift (3 RB each)
-let ZSLOT: usize = 0; // the row beyond an open side
-let ROW0: usize = 0; // row 0 before the pass (periodic y)
+let RS: usize = 0; // bytes per row of a plane: the row, its E shift, its W shift (3 RB)
+let PREV: usize = 0; // the row above as it was before this pass changed it (3 RB)
+let ZSLOT: usize = 0; // the row beyond an open side (3 RB of zeros)
+let ROW0: usize = 0; // row 0 before the pass (periodic y; 3 RB)
 let DBUF: usize = 0;
 let CHG: usize = 0; // pass number of each row's last deletion (i32)
-const SLOTTAG: usize = memory.data(16);
 // Pass number at which each side was last evaluated (-1: not since the plane started).
 const LASTD: usize = memory.data(16);
 // EXPAND[b]: the 8 bits of b as 8 bytes 0/1 (u64, little-endian).
@@ -557,22 +558,14 @@ let flagsReady: bool = false;
   return load<i32>(LASTD + (<usize>d << 2));
 }
 
-/** Word k of row r shifted so that bit x holds pixel x + 1 (the E neighbour), wrapping on a periodic x axis. */
-@inline function shiftE(r: usize, k: i32): u64 {
-  const a = ldw(r, k) >> 1;
-  if (k + 1 < WW) return a | (ldw(r, k + 1) << 63);
-  return WX ? a | ((load<u64>(r) & 1) << <u64>((W - 1) & 63)) : a;
-}
-
-/** Copies row `src` into `slot` with its E and W shifts (bit x = pixel x + 1, x - 1). */
-function fillSlot(slot: usize, src: usize): void {
+/** Writes the E and W shifts of the row at `slot` (bit x = pixel x + 1, x - 1) after it. */
+function fillShifts(slot: usize): void {
   const rb = RB, wp = WP, e = slot + rb, wv = slot + 2 * rb;
   for (let k = 0; k < wp; k += 2) {
     const off = <usize>k << 3;
-    const a = v128.load(src + off);
-    const nx = v128.load(src + off + 8); // words k + 1, k + 2 (the last pair's is fixed below)
-    const pv = v128.load(src + off - 8); // words k - 1, k (the first pair's is fixed below)
-    v128.store(slot + off, a);
+    const a = v128.load(slot + off);
+    const nx = v128.load(slot + off + 8); // words k + 1, k + 2 (the last pair's is fixed below)
+    const pv = v128.load(slot + off - 8); // words k - 1, k (the first pair's is fixed below)
     v128.store(e + off, v128.or(i64x2.shr_u(a, 1), i64x2.shl(nx, 63)));
     v128.store(wv + off, v128.or(i64x2.shl(a, 1), i64x2.shr_u(pv, 63)));
   }
@@ -586,19 +579,8 @@ function fillSlot(slot: usize, src: usize): void {
   store<u64>(wv, w0);
 }
 
-/** The slot holding virtual row vr (-1 and H: across the sides) before the pass changed it. */
-function slotFor(plane: usize, vr: i32): usize {
-  let src: usize;
-  if (vr < 0) { if (!WY) return ZSLOT; src = plane + <usize>(H - 1) * RB; }
-  else if (vr >= H) { if (!WY) return ZSLOT; src = ROW0; }
-  else src = plane + <usize>vr * RB;
-  const idx = ((vr % 3) + 3) % 3;
-  const slot = SLOTS + <usize>idx * 3 * RB;
-  if (load<i32>(SLOTTAG + (<usize>idx << 2)) != vr) {
-    fillSlot(slot, src);
-    store<i32>(SLOTTAG + (<usize>idx << 2), vr);
-  }
-  return slot;
+@inline function copyRow3(dst: usize, src: usize): void {
+  for (let o: usize = 0, e = RS; o < e; o += 16) v128.store(dst + o, v128.load(src + o));
 }
 
 /**
@@ -607,9 +589,9 @@ function slotFor(plane: usize, vr: i32): usize {
  * condition. Returns whether a pixel went.
  */
 function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32): bool {
-  const h = H, wp = WP, rb = RB;
-  if (WY) for (let k = 0; k < wp; k += 2) v128.store(ROW0 + (<usize>k << 3), v128.load(plane + (<usize>k << 3)));
-  for (let s = 0; s < 3; s++) store<i32>(SLOTTAG + (<usize>s << 2), i32.MIN_VALUE);
+  const h = H, wp = WP, rb = RB, rs = RS;
+  if (WY) copyRow3(ROW0, plane);
+  let prevChanged = false;
   const ones = i64x2.splat(-1), zero = i64x2.splat(0);
   const mN = mode == 0 ? ones : zero, mS = mode == 1 ? ones : zero;
   const mE = mode == 2 ? ones : zero, mW = mode == 3 ? ones : zero;
@@ -622,9 +604,12 @@ function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32)
       let m = ldc(y);
       if (y > 0) m = max(m, ldc(y - 1)); else if (WY) m = max(m, ldc(h - 1));
       if (y + 1 < h) m = max(m, ldc(y + 1)); else if (WY) m = max(m, ldc(0));
-      if (m < since) continue;
+      if (m < since) { prevChanged = false; continue; }
     }
-    const u = slotFor(plane, y - 1), c = slotFor(plane, y), d = slotFor(plane, y + 1);
+    // Rows as they were before the pass: the one above from PREV if this pass changed it.
+    const c = plane + <usize>y * rs;
+    const u = y > 0 ? (prevChanged ? PREV : c - rs) : (WY ? plane + <usize>(h - 1) * rs : ZSLOT);
+    const d = y + 1 < h ? c + rs : (WY ? ROW0 : ZSLOT);
     const ue = u + rb, uw = u + 2 * rb, ce = c + rb, cw = c + 2 * rb, de = d + rb, dw = d + 2 * rb;
     let acc = zero;
     for (let k = 0; k < wp; k += 2) {
@@ -666,12 +651,16 @@ function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32)
       v128.store(DBUF + off, dk);
       acc = v128.or(acc, dk);
     }
+    prevChanged = false;
     if (v128.any_true(acc)) {
-      const r = plane + <usize>y * rb;
+      copyRow3(PREV, c);
+      prevChanged = true;
+      const r = c;
       for (let k = 0; k < wp; k += 2) {
         const off = <usize>k << 3;
         v128.store(r + off, v128.andnot(v128.load(r + off), v128.load(DBUF + off)));
       }
+      fillShifts(r);
       store<i32>(CHG + (<usize>y << 2), t);
       any = true;
     }
@@ -711,14 +700,14 @@ function thinPlane(plane: usize, eight: bool): void {
 
 /** Lists the top-left pixels of the 2x2 blocks of `plane` (phase v) on the work list; returns how many. */
 function listBlocks(plane: usize): i32 {
-  const h = H, w = W, ww = WW, rb = RB;
+  const h = H, w = W, ww = WW, rb = RB, rs = RS;
   NLIST = 0;
   for (let y = 0; y < h; y++) {
     if (y + 1 >= h && !WY) break;
-    const c = plane + <usize>y * rb;
-    const d = y + 1 < h ? c + rb : plane;
+    const c = plane + <usize>y * rs;
+    const d = y + 1 < h ? c + rs : plane;
     for (let k = 0; k < ww; k++) {
-      let b = ldw(c, k) & shiftE(c, k) & ldw(d, k) & shiftE(d, k);
+      let b = ldw(c, k) & ldw(c + rb, k) & ldw(d, k) & ldw(d + rb, k);
       while (b != 0) {
         const x = (k << 6) + <i32>ctz(b);
         b &= b - 1;
@@ -760,7 +749,7 @@ function setFlags(): void {
 /** Bytes of `work` thinBits needs for a W x H frame. */
 export function thinBitsBytes(w: i32, h: i32): i32 {
   const rb = ((((w + 63) >> 6) + 1) >> 1) << 4;
-  return 2 * h * rb + 14 * rb + 4 * h + 64;
+  return 6 * h * rb + 13 * rb + 4 * h + 96;
 }
 
 /**
@@ -774,9 +763,10 @@ export function thinBits(work: usize): i32 {
   WW = (w + 63) >> 6;
   WP = (WW + 1) & ~1;
   RB = <usize>WP << 3;
-  const planeBytes = <usize>h * RB;
-  PLANE1 = work; PLANE0 = PLANE1 + planeBytes;
-  SLOTS = PLANE0 + planeBytes; ZSLOT = SLOTS + 9 * RB; ROW0 = ZSLOT + 3 * RB; DBUF = ROW0 + RB;
+  RS = 3 * RB;
+  const planeBytes = <usize>h * RS;
+  PLANE1 = work + 16; PLANE0 = PLANE1 + planeBytes; // (16 bytes before: the first row's word -1 is read)
+  PREV = PLANE0 + planeBytes; ZSLOT = PREV + RS; ROW0 = ZSLOT + RS; DBUF = ROW0 + RS;
   CHG = DBUF + RB;
   memory.fill(ZSLOT, 0, 3 * RB);
   if (!expandReady) {
@@ -790,7 +780,7 @@ export function thinBits(work: usize): i32 {
   // Phase map -> planes (bit x of a row's words = pixel x; bits past the row stay 0).
   for (let y = 0; y < h; y++) {
     const src = PH + <usize>(y * w);
-    const r1 = PLANE1 + <usize>y * RB, r0 = PLANE0 + <usize>y * RB;
+    const r1 = PLANE1 + <usize>y * RS, r0 = PLANE0 + <usize>y * RS;
     store<u64>(r1 + RB - 8, 0); store<u64>(r0 + RB - 8, 0);
     for (let k = 0; k < WW; k++) {
       const x0 = k << 6;
@@ -813,12 +803,13 @@ export function thinBits(work: usize): i32 {
       }
     }
   }
+  for (let y = 0; y < h; y++) { fillShifts(PLANE1 + <usize>y * RS); fillShifts(PLANE0 + <usize>y * RS); }
   const eight1 = joinsDiagonal(1, 0);
   thinPlane(PLANE1, eight1);
   thinPlane(PLANE0, !eight1);
   // Planes -> SK bytes (1 on the skeleton).
   for (let y = 0; y < h; y++) {
-    const r1 = PLANE1 + <usize>y * RB, r0 = PLANE0 + <usize>y * RB;
+    const r1 = PLANE1 + <usize>y * RS, r0 = PLANE0 + <usize>y * RS;
     const dst = SK + <usize>(y * w);
     for (let k = 0; k < WW; k++) {
       const bits = ldw(r1, k) | ldw(r0, k);
