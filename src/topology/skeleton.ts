@@ -25,6 +25,12 @@ export interface SkeletonGraphInput {
   quads?: Uint8Array;
   /** The skeleton's adjacency, when already at hand (SkeletonWorkspace.neighbours() after the run that gave `skeleton`). */
   adjacency?: SkeletonNeighbours;
+  /**
+   * Step lengths and chords of another lattice's direction codes (a hexagonal frame), used
+   * instead of the square grid's: step[code] (8 entries), chord[8 a + b] = half the chord
+   * (distance between the pixels before and after) of a step in direction a followed by one in b.
+   */
+  directionGeometry?: { step: Float64Array; chord: Float64Array };
 }
 
 export interface GraphOptions {
@@ -131,12 +137,12 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const adj = input.adjacency ?? skeletonNeighbours(sk, phase, w, h, { periodicX, periodicY, rule, quads });
   const deg = adj.degree, nbr = adj.neighbours, skelPixels = adj.list, skelCount = adj.count;
   // Step length by direction: 1 along a row or column, sqrt 2 on a diagonal.
-  const STEP = [1, 1, 1, 1, SQRT2, SQRT2, SQRT2, SQRT2];
+  const STEP = input.directionGeometry?.step ?? [1, 1, 1, 1, SQRT2, SQRT2, SQRT2, SQRT2];
   // Half the chord to the pixel two steps back: straight runs count 1 a step, diagonal runs
   // sqrt 2, and a 4-connected staircase its diagonal length (not its 1 + 1 steps). Two steps
   // apart, |dx| and |dy| are 0, 1 or 2: CHORD[3 dx + dy] = sqrt(dx^2 + dy^2) / 2; on a periodic
   // axis the shorter way round counts (a frame 3 pixels wide). chords[8 a + b]: steps a then b.
-  const chords = chordTable(w, h, px, py);
+  const chords = input.directionGeometry?.chord ?? chordTable(w, h, px, py);
   // Nodes: junction clusters (deg >= 3 pixels, merged over adjacency), ends (deg 1), points (deg 0).
   const node = pool.node;
   node.fill(-1);

@@ -56,3 +56,14 @@ export interface SkeletonKernelExports {
 export interface SkeletonGraphKernelExports {
   skeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
 }
+
+// Hexagonal frames (assembly/hex-label.ts, assembly/hex-thin.ts).
+export interface HexKernelExports {
+  hexBindLabel(parents: number, shiftsX: number, shiftsY: number, windings: number): void;
+  hexLabel(): number;
+  hexMeasure(K: number, columns: number, stats: number): void;
+  hexAbsorb(phase: number, minArea: number): number;
+  hexThin(skeleton: number): number;
+  hexSkeletonDistance(skeleton: number, distance: number, offsets: number, lengths: number, count: number, cap: number): void;
+  hexSkeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
+}
