@@ -63,8 +63,13 @@ let SKB: usize = 0;
   return popcnt(m ^ rot) == 2;
 }
 
-/** Thins both phases of PH into `skel` (u8 per site, 1 = on the skeleton of its own phase). Returns the rounds run. */
-export function hexThin(skel: usize): i32 {
+/**
+ * Thins both phases of PH into `skel` (u8 per site, 1 = on the skeleton of its own phase);
+ * `cand` is an i32 scratch list of W * H entries. Each sweep marks its candidates on the state at
+ * the sweep's start (so one sweep peels one layer from one side), then deletes them one by one
+ * after a re-check against the current state. Returns the rounds run.
+ */
+export function hexThin(skel: usize, cand: usize): i32 {
   SKB = skel;
   const w = W, h = H, n = w * h;
   memory.fill(skel, 1, <usize>n);
@@ -75,6 +80,7 @@ export function hexThin(skel: usize): i32 {
       changed = false;
       rounds++;
       for (let k = 0; k < 6; k++) {
+        let nc = 0;
         for (let y = 0; y < h; y++) {
           for (let x = 0; x < w; x++) {
             const i = y * w + x;
@@ -83,9 +89,17 @@ export function hexThin(skel: usize): i32 {
             if (j >= 0 && ph(j) == v && sk(j) != 0) continue; // not a border site in direction k
             const m = ringMask(x, y, v);
             if (popcnt(m) < 2 || !simpleRing(m)) continue;
-            store<u8>(SKB + <usize>i, 0);
-            changed = true;
+            store<i32>(cand + (<usize>nc << 2), i);
+            nc++;
           }
+        }
+        for (let t = 0; t < nc; t++) {
+          const i = load<i32>(cand + (<usize>t << 2));
+          const y = i / w, x = i - y * w;
+          const m = ringMask(x, y, v);
+          if (popcnt(m) < 2 || !simpleRing(m)) continue;
+          store<u8>(SKB + <usize>i, 0);
+          changed = true;
         }
       }
     }

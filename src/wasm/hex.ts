@@ -57,6 +57,7 @@ export class HexWorkspace {
   private colPtr = 0;
   private colCap = 0;
   private skPtr = 0;
+  private candPtr = 0;
   private distPtr = 0;
   private offPtr = 0;
   private lenPtr = 0;
@@ -155,6 +156,7 @@ export class HexWorkspace {
     this.check();
     const n = this.pixels;
     this.skPtr ||= wasmAlloc(n);
+    this.candPtr ||= wasmAlloc(4 * n);
     this.distPtr ||= wasmAlloc(4 * n);
     if (cap !== this.offCap) {
       const o = latticeOffsets(cap);
@@ -167,7 +169,7 @@ export class HexWorkspace {
       this.offCap = cap;
     }
     this.bind();
-    this.k.hexThin(this.skPtr);
+    this.k.hexThin(this.skPtr, this.candPtr);
     this.k.hexSkeletonDistance(this.skPtr, this.distPtr, this.offPtr, this.lenPtr, this.offCount, cap);
     return { skeleton: viewU8(this.skPtr, n), distance: viewF32(this.distPtr, n) };
   }
@@ -186,7 +188,7 @@ export class HexWorkspace {
   }
 
   bytes(): number {
-    return this.pixels * 21 + 16 + this.colCap + (this.skPtr ? 5 * this.pixels : 0) +
+    return this.pixels * 21 + 16 + this.colCap + (this.skPtr ? 9 * this.pixels : 0) +
       (this.adj ? 37 * this.pixels : 0) + 12 * this.offCount;
   }
 
@@ -194,7 +196,7 @@ export class HexWorkspace {
     if (this.disposed) return;
     this.disposed = true;
     for (const p of [this.phasePtr, this.labelPtr, this.parPtr, this.sxPtr, this.syPtr, this.wfPtr,
-      this.statsPtr, this.colPtr, this.skPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
+      this.statsPtr, this.colPtr, this.skPtr, this.candPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
     if (this.adj) for (const p of [this.adj.deg, this.adj.list, this.adj.nbr]) wasmFree(p);
   }
 
