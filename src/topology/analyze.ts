@@ -299,7 +299,8 @@ export class FrameAnalyzer {
     if (!this.lastSkeleton || !this.lastMaps) {
       throw new Error("overlay: analyze a frame with the skeleton on first");
     }
-    return overlayPixels(this.lastSkeleton, this.width, this.height, this.lastMaps.phase, this.lastMaps.labels, options);
+    const o: OverlayOptions = this.lastGrid === "hex" && options.grid === undefined ? { ...options, grid: "hex" } : options;
+    return overlayPixels(this.lastSkeleton, this.width, this.height, this.lastMaps.phase, this.lastMaps.labels, o);
   }
 
   private spectrumOf(frame: Frame, o: ResolvedFrameOptions): SpectrumResult {
