@@ -26,7 +26,7 @@ export { analyzeSkeletons, resolveSkeletonOptions } from "./topology/skeleton-an
 export type { SkeletonOptions, SkeletonAnalysis, LabeledFrame } from "./topology/skeleton-analysis";
 export { KIND_BUBBLE, KIND_STRIPE, KIND_LABYRINTH, KIND_NAMES } from "./topology/classify";
 export type { SkeletonColumns, PhaseSkeletonSummary, DomainKind } from "./topology/classify";
-export { overlayPixels } from "./render/overlay";
+export { overlayPixels, hexRaster } from "./render/overlay";
 export type { OverlayImage, OverlayOptions } from "./render/overlay";
 export * from "./prep/index";
 export { thresholdSensitivity } from "./sequence/sensitivity";

@@ -93,17 +93,19 @@ function domainColour(a: SkeletonAnalysis, labels: Int32Array, phase: Uint8Array
   return [Math.round(base[0] * f), Math.round(base[1] * f), Math.round(base[2] * f)];
 }
 
-/** The hexagonal overlay: every image pixel takes the colour of its nearest site. */
-function overlayHex(
-  a: SkeletonAnalysis, width: number, height: number, phase: Uint8Array, labels: Int32Array, s: number,
+/**
+ * Draws a hexagonal frame (offset rows, odd rows shifted right by half a site) at `scale` image
+ * pixels per lattice constant: every image pixel takes `colour(site, d2)` of its nearest site
+ * (d2 = squared distance to it in lattice constants), so each site is its hexagonal cell.
+ * Pixels outside every cell stay transparent.
+ */
+export function hexRaster(
+  width: number, height: number, scale: number,
+  colour: (site: number, d2: number) => readonly [number, number, number],
 ): OverlayImage {
+  const s = scale;
   const W = Math.ceil((width + 0.5) * s), H = Math.ceil(((height - 1) * ROW + 2 * OY) * s);
   const rgba = new Uint8Array(W * H * 4);
-  const put = (X: number, Y: number, c: readonly [number, number, number]) => {
-    if (X < 0 || Y < 0 || X >= W || Y >= H) return;
-    const o = (Y * W + X) * 4;
-    rgba[o] = c[0]; rgba[o + 1] = c[1]; rgba[o + 2] = c[2]; rgba[o + 3] = 255;
-  };
   for (let Y = 0; Y < H; Y++) {
     const py = (Y + 0.5) / s - OY;
     const r0 = Math.round(py / ROW);
@@ -119,11 +121,27 @@ function overlayHex(
           if (d < bd) { bd = d; best = r * width + c; }
         }
       }
-      if (best < 0 || bd > 1 / 3 + 1e-9) continue; // outside every cell (circumradius 1/sqrt 3): transparent
-      const sk = a.pruned[best] === 1 && bd < 0.04;
-      put(X, Y, sk ? (phase[best] ? SKELETON : [255, 255, 255]) : domainColour(a, labels, phase, best));
+      if (best < 0 || bd > 1 / 3 + 1e-9) continue; // outside every cell (circumradius 1/sqrt 3)
+      const c = colour(best, bd);
+      const o = (Y * W + X) * 4;
+      rgba[o] = c[0]; rgba[o + 1] = c[1]; rgba[o + 2] = c[2]; rgba[o + 3] = 255;
     }
   }
+  return { width: W, height: H, rgba };
+}
+
+/** The hexagonal overlay: every image pixel takes the colour of its nearest site. */
+function overlayHex(
+  a: SkeletonAnalysis, width: number, height: number, phase: Uint8Array, labels: Int32Array, s: number,
+): OverlayImage {
+  const img = hexRaster(width, height, s, (site, d2) => (a.pruned[site] === 1 && d2 < 0.04
+    ? (phase[site] ? SKELETON : [255, 255, 255] as const) : domainColour(a, labels, phase, site)));
+  const { width: W, height: H, rgba } = img;
+  const put = (X: number, Y: number, c: readonly [number, number, number]) => {
+    if (X < 0 || Y < 0 || X >= W || Y >= H) return;
+    const o = (Y * W + X) * 4;
+    rgba[o] = c[0]; rgba[o + 1] = c[1]; rgba[o + 2] = c[2]; rgba[o + 3] = 255;
+  };
   // The skeleton's edges: a line between the centres of neighbouring pruned skeleton sites of
   // one phase (forward neighbours E, SW, SE inside the frame, so each edge once).
   const centre = (x: number, y: number): [number, number] => [(x + (y & 1) / 2 + OX) * s, (y * ROW + OY) * s];
