@@ -223,3 +223,27 @@ describe("hexagonal tables are in physical units", () => {
     expect(Math.abs(h.domains.elongation[hu]! / s.domains.elongation[su]! - 1)).toBeLessThan(0.02);
   });
 });
+
+describe("the hexagonal kernels against a plain-TS reference", () => {
+  it("give the same domains, sites, Euler numbers, phase changes and centroids on random frames, open and periodic", async () => {
+    const { hexReference } = await import("./reference");
+    const boundaries = ["open", "periodic", "periodic-x", "periodic-y"] as const;
+    for (let seed = 1; seed <= 16; seed++) {
+      const boundary = boundaries[seed % 4]!;
+      const w = 17 + 5 * (seed % 5), h = 12 + 2 * (seed % 6);
+      const f = randomHex(900 + seed, w, h, 0.25 + 0.03 * seed);
+      const px = boundary === "periodic" || boundary === "periodic-x", py = boundary === "periodic" || boundary === "periodic-y";
+      const ref = hexReference(f.data, w, h, px, py);
+      const r = hex(f, { boundary, keepLabels: true });
+      expect(r.domains.count).toBe(ref.count);
+      expect(Array.from(r.labels!)).toEqual(Array.from(ref.labels));
+      for (let d = 0; d < ref.count; d++) {
+        expect(r.domains.phase[d]).toBe(ref.phase[d]);
+        expect(r.domains.area[d]).toBeCloseTo(ref.sites[d]! * R, 9);
+        expect(r.domains.euler[d]).toBe(ref.euler[d]);
+        expect(r.domains.wallLength[d]).toBeCloseTo((Math.PI * Math.sqrt(3) / 12) * ref.changes[d]!, 9);
+        if (!r.domains.wrapsX[d] && !px) expect(r.domains.centroidX[d]).toBeCloseTo(ref.sumX[d]! / ref.sites[d]!, 9);
+      }
+    }
+  });
+});
