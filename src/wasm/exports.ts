@@ -59,7 +59,7 @@ export interface SkeletonGraphKernelExports {
 
 // Hexagonal frames (assembly/hex-label.ts, assembly/hex-thin.ts).
 export interface HexKernelExports {
-  hexBindLabel(parents: number, shiftsX: number, shiftsY: number, windings: number): void;
+  hexBindLabel(labelParents: number, componentParents: number, shiftsX: number, shiftsY: number, windings: number, domainIds: number): void;
   hexLabel(): number;
   hexMeasure(K: number, columns: number, stats: number): void;
   hexAbsorb(phase: number, minArea: number): number;

@@ -50,9 +50,11 @@ export class HexWorkspace {
   private phasePtr: number;
   private labelPtr: number;
   private parPtr: number;
+  private cqPtr: number;
   private sxPtr: number;
   private syPtr: number;
   private wfPtr: number;
+  private finPtr: number;
   private statsPtr: number;
   private colPtr = 0;
   private colCap = 0;
@@ -78,17 +80,19 @@ export class HexWorkspace {
     const n = this.pixels;
     this.phasePtr = wasmAlloc(n + 16);
     this.labelPtr = wasmAlloc(4 * n);
-    this.parPtr = wasmAlloc(4 * n);
-    this.sxPtr = wasmAlloc(4 * n);
-    this.syPtr = wasmAlloc(4 * n);
-    this.wfPtr = wasmAlloc(4 * n);
+    this.parPtr = wasmAlloc(4 * (n + 1));
+    this.cqPtr = wasmAlloc(4 * (n + 1));
+    this.sxPtr = wasmAlloc(4 * (n + 1));
+    this.syPtr = wasmAlloc(4 * (n + 1));
+    this.wfPtr = wasmAlloc(4 * (n + 1));
+    this.finPtr = wasmAlloc(4 * (n + 1));
     this.statsPtr = wasmAlloc(9 * 8);
   }
 
   private bind(): void {
     this.k.setGeometry(this.width, this.height, this.px ? 1 : 0, this.py ? 1 : 0, 0);
     this.k.setBuffers(this.phasePtr, this.labelPtr, 0, 0);
-    this.k.hexBindLabel(this.parPtr, this.sxPtr, this.syPtr, this.wfPtr);
+    this.k.hexBindLabel(this.parPtr, this.cqPtr, this.sxPtr, this.syPtr, this.wfPtr, this.finPtr);
   }
 
   /** Copies a phase map (1 up, 0 down) in. */
@@ -188,14 +192,14 @@ export class HexWorkspace {
   }
 
   bytes(): number {
-    return this.pixels * 21 + 16 + this.colCap + (this.skPtr ? 9 * this.pixels : 0) +
+    return this.pixels * 29 + 40 + this.colCap + (this.skPtr ? 9 * this.pixels : 0) +
       (this.adj ? 37 * this.pixels : 0) + 12 * this.offCount;
   }
 
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
-    for (const p of [this.phasePtr, this.labelPtr, this.parPtr, this.sxPtr, this.syPtr, this.wfPtr,
+    for (const p of [this.phasePtr, this.labelPtr, this.parPtr, this.cqPtr, this.sxPtr, this.syPtr, this.wfPtr, this.finPtr,
       this.statsPtr, this.colPtr, this.skPtr, this.candPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
     if (this.adj) for (const p of [this.adj.deg, this.adj.list, this.adj.nbr]) wasmFree(p);
   }
