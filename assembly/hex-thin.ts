@@ -48,12 +48,28 @@ let SKB: usize = 0;
 
 /** Ring mask of site (x, y) in the skeleton of phase v: bit k set when neighbour k is in it. */
 @inline function ringMask(x: i32, y: i32, v: i32): i32 {
+  if (x > 0 && y > 0 && x + 1 < W && y + 1 < H) {
+    // Away from the frame's rim: the six neighbours at fixed offsets.
+    const i = y * W + x, o = y & 1;
+    const up = i - W + o, down = i + W + o;
+    return inSet(i + 1, v) | (inSet(up, v) << 1) | (inSet(up - 1, v) << 2) | (inSet(i - 1, v) << 3) |
+      (inSet(down - 1, v) << 4) | (inSet(down, v) << 5);
+  }
   let m = 0;
   for (let k = 0; k < 6; k++) {
     const j = nb(x, y, k);
     if (j >= 0 && ph(j) == v && sk(j) != 0) m |= 1 << k;
   }
   return m;
+}
+
+@inline function inSet(j: i32, v: i32): i32 {
+  return <i32>(ph(j) == v) & <i32>(sk(j) != 0);
+}
+
+/** Whether a site with ring mask m may be deleted: simple and not an end (at least two neighbours). */
+@inline function deletable(m: i32): bool {
+  return popcnt(m) >= 2 && simpleRing(m);
 }
 
 /** Crossing number test: exactly one run of set bits around the six-ring (and not all six). */
@@ -65,45 +81,70 @@ let SKB: usize = 0;
 
 /**
  * Thins both phases of PH into `skel` (u8 per site, 1 = on the skeleton of its own phase);
- * `cand` is an i32 scratch list of W * H entries. Each sweep marks its candidates on the state at
- * the sweep's start (so one sweep peels one layer from one side), then deletes them one by one
- * after a re-check against the current state. Returns the rounds run.
+ * `cand` and `list` are i32 scratch lists of W * H entries. Each sweep marks its candidates on
+ * the state at the sweep's start (so one sweep peels one layer from one side), then deletes them
+ * one by one after a re-check against the current state. Only sites on the work list are
+ * examined: at the start the sites with a neighbour outside the skeleton, later also every
+ * skeleton neighbour of a deleted site (nothing else can become deletable). Returns the rounds run.
  */
-export function hexThin(skel: usize, cand: usize): i32 {
+export function hexThin(skel: usize, cand: usize, list: usize): i32 {
   SKB = skel;
   const w = W, h = H, n = w * h;
   memory.fill(skel, 1, <usize>n);
   let rounds = 0;
   for (let v = 1; v >= 0; v--) {
+    // Work list: sites of phase v with a neighbour outside the skeleton (bit 1 marks listed sites).
+    let nl = 0;
+    for (let y = 0; y < h; y++) {
+      for (let x = 0; x < w; x++) {
+        const i = y * w + x;
+        if (ph(i) != v) continue;
+        if (ringMask(x, y, v) == 63) continue;
+        store<u8>(SKB + <usize>i, 3);
+        store<i32>(list + (<usize>nl << 2), i);
+        nl++;
+      }
+    }
     let changed = true;
     while (changed) {
       changed = false;
       rounds++;
       for (let k = 0; k < 6; k++) {
         let nc = 0;
-        for (let y = 0; y < h; y++) {
-          for (let x = 0; x < w; x++) {
-            const i = y * w + x;
-            if (ph(i) != v || sk(i) == 0) continue;
-            const j = nb(x, y, k);
-            if (j >= 0 && ph(j) == v && sk(j) != 0) continue; // not a border site in direction k
-            const m = ringMask(x, y, v);
-            if (popcnt(m) < 2 || !simpleRing(m)) continue;
-            store<i32>(cand + (<usize>nc << 2), i);
-            nc++;
-          }
+        for (let t = 0; t < nl; t++) {
+          const i = load<i32>(list + (<usize>t << 2));
+          if (sk(i) == 0) continue;
+          const y = i / w, x = i - y * w;
+          const m = ringMask(x, y, v);
+          if (((m >> k) & 1) != 0 || !deletable(m)) continue; // not a border site in direction k, or kept
+          store<i32>(cand + (<usize>nc << 2), i);
+          nc++;
         }
         for (let t = 0; t < nc; t++) {
           const i = load<i32>(cand + (<usize>t << 2));
           const y = i / w, x = i - y * w;
-          const m = ringMask(x, y, v);
-          if (popcnt(m) < 2 || !simpleRing(m)) continue;
+          if (!deletable(ringMask(x, y, v))) continue;
           store<u8>(SKB + <usize>i, 0);
           changed = true;
+          for (let q = 0; q < 6; q++) {
+            const j = nb(x, y, q);
+            if (j < 0 || ph(j) != v || sk(j) != 1) continue; // off the skeleton, or listed already
+            store<u8>(SKB + <usize>j, 3);
+            store<i32>(list + (<usize>nl << 2), j);
+            nl++;
+          }
         }
       }
+      // Drop deleted sites from the list.
+      let kept = 0;
+      for (let t = 0; t < nl; t++) {
+        const i = load<i32>(list + (<usize>t << 2));
+        if (sk(i) != 0) { store<i32>(list + (<usize>kept << 2), i); kept++; }
+      }
+      nl = kept;
     }
   }
+  for (let i = 0; i < n; i++) if (sk(i) != 0) store<u8>(SKB + <usize>i, 1);
   return rounds;
 }
 

@@ -63,7 +63,7 @@ export interface HexKernelExports {
   hexLabel(): number;
   hexMeasure(K: number, columns: number, stats: number): void;
   hexAbsorb(phase: number, minArea: number): number;
-  hexThin(skeleton: number, candidates: number): number;
+  hexThin(skeleton: number, candidates: number, list: number): number;
   hexSkeletonDistance(skeleton: number, distance: number, offsets: number, lengths: number, count: number, cap: number): void;
   hexSkeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
 }

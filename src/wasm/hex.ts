@@ -60,6 +60,7 @@ export class HexWorkspace {
   private colCap = 0;
   private skPtr = 0;
   private candPtr = 0;
+  private listPtr = 0;
   private distPtr = 0;
   private offPtr = 0;
   private lenPtr = 0;
@@ -161,6 +162,7 @@ export class HexWorkspace {
     const n = this.pixels;
     this.skPtr ||= wasmAlloc(n);
     this.candPtr ||= wasmAlloc(4 * n);
+    this.listPtr ||= wasmAlloc(4 * n);
     this.distPtr ||= wasmAlloc(4 * n);
     if (cap !== this.offCap) {
       const o = latticeOffsets(cap);
@@ -173,7 +175,7 @@ export class HexWorkspace {
       this.offCap = cap;
     }
     this.bind();
-    this.k.hexThin(this.skPtr, this.candPtr);
+    this.k.hexThin(this.skPtr, this.candPtr, this.listPtr, this.listPtr);
     this.k.hexSkeletonDistance(this.skPtr, this.distPtr, this.offPtr, this.lenPtr, this.offCount, cap);
     return { skeleton: viewU8(this.skPtr, n), distance: viewF32(this.distPtr, n) };
   }
@@ -192,7 +194,7 @@ export class HexWorkspace {
   }
 
   bytes(): number {
-    return this.pixels * 29 + 40 + this.colCap + (this.skPtr ? 9 * this.pixels : 0) +
+    return this.pixels * 29 + 40 + this.colCap + (this.skPtr ? 13 * this.pixels : 0) +
       (this.adj ? 37 * this.pixels : 0) + 12 * this.offCount;
   }
 
@@ -200,7 +202,7 @@ export class HexWorkspace {
     if (this.disposed) return;
     this.disposed = true;
     for (const p of [this.phasePtr, this.labelPtr, this.parPtr, this.cqPtr, this.sxPtr, this.syPtr, this.wfPtr, this.finPtr,
-      this.statsPtr, this.colPtr, this.skPtr, this.candPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
+      this.statsPtr, this.colPtr, this.skPtr, this.candPtr, this.listPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
     if (this.adj) for (const p of [this.adj.deg, this.adj.list, this.adj.nbr]) wasmFree(p);
   }
 
