@@ -221,9 +221,25 @@ let KK: i32 = 0;
  * columns (at `cols`, HEX_COLUMNS x (K + 1) f64) and the frame statistics (`stats`, 9 f64: V, E, F
  * of the up phase, V, E, F of the down phase, phase changes along E, SW, SE).
  */
-export function hexMeasure(K: i32, cols: usize, stats: usize): void {
+export function hexMeasure(K: i32, cols: usize, stats: usize, trig: usize): void {
   COLS = cols; KK = K;
   const w = W, h = H;
+  // Circular-mean tables: prefix sums of cos / sin of 2 pi (x + o/2) / W for o = 0, 1 (W + 1
+  // entries each), then cos / sin of 2 pi y / H (H entries each).
+  const tc0 = trig, ts0 = trig + (<usize>(w + 1) << 3), tc1 = trig + (<usize>(2 * (w + 1)) << 3);
+  const ts1 = trig + (<usize>(3 * (w + 1)) << 3), tcy = trig + (<usize>(4 * (w + 1)) << 3);
+  const tsy = tcy + (<usize>h << 3);
+  const tw = 2 * Math.PI / <f64>w, th = 2 * Math.PI / <f64>h;
+  if (PX || PY) {
+    let c0 = 0.0, s0 = 0.0, c1 = 0.0, s1 = 0.0;
+    stf(tc0, 0, 0); stf(ts0, 0, 0); stf(tc1, 0, 0); stf(ts1, 0, 0);
+    for (let x = 0; x < w; x++) {
+      c0 += Math.cos(tw * <f64>x); s0 += Math.sin(tw * <f64>x);
+      c1 += Math.cos(tw * (<f64>x + 0.5)); s1 += Math.sin(tw * (<f64>x + 0.5));
+      stf(tc0, x + 1, c0); stf(ts0, x + 1, s0); stf(tc1, x + 1, c1); stf(ts1, x + 1, s1);
+    }
+    for (let y = 0; y < h; y++) { stf(tcy, y, Math.cos(th * <f64>y)); stf(tsy, y, Math.sin(th * <f64>y)); }
+  }
   memory.fill(cols, 0, <usize>(HEX_COLUMNS * (K + 1)) << 3);
   for (let d = 0; d <= K; d++) {
     stf(col(C_MINX, 0), d, Infinity); stf(col(C_MAXX, 0), d, -Infinity);
@@ -231,7 +247,6 @@ export function hexMeasure(K: i32, cols: usize, stats: usize): void {
   }
   memory.fill(stats, 0, 9 << 3);
   const periodic = PX || PY;
-  const tw = 2 * Math.PI / <f64>w, th = 2 * Math.PI / <f64>h;
   // Runs: final labels, area, moments, box, flags, phase.
   for (let y = 0; y < h; y++) {
     const row = y * w, o = y & 1;
@@ -267,11 +282,9 @@ export function hexMeasure(K: i32, cols: usize, stats: usize): void {
       store<f64>(col(C_FLAGS, d), <f64>f);
       store<f64>(col(C_PHASE, d), <f64>v);
       if (wf != 0) {
-        for (let x = x0; x <= x1; x++) {
-          const ax = tw * (<f64>x + 0.5 * <f64>o), ay = th * <f64>y;
-          addc(C_CXC, d, Math.cos(ax)); addc(C_CXS, d, Math.sin(ax));
-          addc(C_CYC, d, Math.cos(ay)); addc(C_CYS, d, Math.sin(ay));
-        }
+        const tc = o == 0 ? tc0 : tc1, ts = o == 0 ? ts0 : ts1;
+        addc(C_CXC, d, ldf(tc, x1 + 1) - ldf(tc, x0)); addc(C_CXS, d, ldf(ts, x1 + 1) - ldf(ts, x0));
+        addc(C_CYC, d, fn * ldf(tcy, y)); addc(C_CYS, d, fn * ldf(tsy, y));
       }
       x0 = x1 + 1;
     }

@@ -33,32 +33,29 @@ export function resampleHexToSquare(
   const dx = periodicX ? sizeX / wo : HEX_SQUARE_SPACING;
   const dy = periodicY ? sizeY / ho : HEX_SQUARE_SPACING;
   const out = new Float32Array(wo * ho);
-  // Value of row r (any integer; wrapped or clamped) at position X along the row.
-  const rowAt = (r: number, X: number): number => {
-    if (periodicY) r = ((r % height) + height) % height;
-    else r = Math.min(height - 1, Math.max(0, r));
-    const u = X - (r & 1) / 2;
-    let i0 = Math.floor(u);
-    const t = u - i0;
-    let i1 = i0 + 1;
-    if (periodicX) {
-      i0 = ((i0 % width) + width) % width;
-      i1 = ((i1 % width) + width) % width;
-    } else {
-      i0 = Math.min(width - 1, Math.max(0, i0));
-      i1 = Math.min(width - 1, Math.max(0, i1));
-    }
-    const row = r * width;
-    return (1 - t) * data[row + i0]! + t * data[row + i1]!;
-  };
-  for (let j = 0; j < ho; j++) {
-    const Y = j * dy;
-    const rf = Y / ROW;
-    const r0 = Math.floor(rf), s = rf - r0;
+  // Per output column and row parity: the two sites along the row and the weight of the second.
+  const i0 = [new Int32Array(wo), new Int32Array(wo)], i1 = [new Int32Array(wo), new Int32Array(wo)];
+  const wt = [new Float64Array(wo), new Float64Array(wo)];
+  const wrapX = (i: number) => (periodicX ? ((i % width) + width) % width : Math.min(width - 1, Math.max(0, i)));
+  for (let p = 0; p < 2; p++) {
     for (let i = 0; i < wo; i++) {
-      const X = i * dx;
-      const a = rowAt(r0, X);
-      out[j * wo + i] = s > 0 ? (1 - s) * a + s * rowAt(r0 + 1, X) : a;
+      const u = i * dx - p / 2;
+      const f = Math.floor(u);
+      i0[p]![i] = wrapX(f); i1[p]![i] = wrapX(f + 1); wt[p]![i] = u - f;
+    }
+  }
+  const wrapY = (r: number) => (periodicY ? ((r % height) + height) % height : Math.min(height - 1, Math.max(0, r)));
+  for (let j = 0; j < ho; j++) {
+    const rf = (j * dy) / ROW;
+    const r0 = Math.floor(rf), sw = rf - r0;
+    const ra = wrapY(r0), rb = wrapY(r0 + 1);
+    const pa = ra & 1, pb = rb & 1;
+    const a0 = i0[pa]!, a1 = i1[pa]!, aw = wt[pa]!, b0 = i0[pb]!, b1 = i1[pb]!, bw = wt[pb]!;
+    const oa = ra * width, ob = rb * width, oj = j * wo;
+    for (let i = 0; i < wo; i++) {
+      const va = data[oa + a0[i]!]! + aw[i]! * (data[oa + a1[i]!]! - data[oa + a0[i]!]!);
+      const vb = data[ob + b0[i]!]! + bw[i]! * (data[ob + b1[i]!]! - data[ob + b0[i]!]!);
+      out[oj + i] = va + sw * (vb - va);
     }
   }
   return { frame: { width: wo, height: ho, data: out }, dx, dy };

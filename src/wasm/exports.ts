@@ -61,7 +61,7 @@ export interface SkeletonGraphKernelExports {
 export interface HexKernelExports {
   hexBindLabel(labelParents: number, componentParents: number, shiftsX: number, shiftsY: number, windings: number, domainIds: number): void;
   hexLabel(): number;
-  hexMeasure(K: number, columns: number, stats: number): void;
+  hexMeasure(K: number, columns: number, stats: number, trig: number): void;
   hexAbsorb(phase: number, minArea: number): number;
   hexThin(skeleton: number, candidates: number, list: number): number;
   hexSkeletonDistance(skeleton: number, distance: number, offsets: number, lengths: number, count: number, cap: number): void;

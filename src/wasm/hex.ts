@@ -56,6 +56,7 @@ export class HexWorkspace {
   private wfPtr: number;
   private finPtr: number;
   private statsPtr: number;
+  private trigPtr: number;
   private colPtr = 0;
   private colCap = 0;
   private skPtr = 0;
@@ -88,6 +89,7 @@ export class HexWorkspace {
     this.wfPtr = wasmAlloc(4 * (n + 1));
     this.finPtr = wasmAlloc(4 * (n + 1));
     this.statsPtr = wasmAlloc(9 * 8);
+    this.trigPtr = wasmAlloc(8 * (4 * (width + 1) + 2 * height));
   }
 
   private bind(): void {
@@ -117,7 +119,7 @@ export class HexWorkspace {
       this.colPtr = wasmAlloc(this.colCap);
       this.bind();
     }
-    this.k.hexMeasure(K, this.colPtr, this.statsPtr);
+    this.k.hexMeasure(K, this.colPtr, this.statsPtr, this.trigPtr);
     this.domainCount = K;
     return K;
   }
@@ -175,7 +177,7 @@ export class HexWorkspace {
       this.offCap = cap;
     }
     this.bind();
-    this.k.hexThin(this.skPtr, this.candPtr, this.listPtr, this.listPtr);
+    this.k.hexThin(this.skPtr, this.candPtr, this.listPtr);
     this.k.hexSkeletonDistance(this.skPtr, this.distPtr, this.offPtr, this.lenPtr, this.offCount, cap);
     return { skeleton: viewU8(this.skPtr, n), distance: viewF32(this.distPtr, n) };
   }
@@ -194,7 +196,7 @@ export class HexWorkspace {
   }
 
   bytes(): number {
-    return this.pixels * 29 + 40 + this.colCap + (this.skPtr ? 13 * this.pixels : 0) +
+    return this.pixels * 29 + 40 + 8 * (4 * (this.width + 1) + 2 * this.height) + this.colCap + (this.skPtr ? 13 * this.pixels : 0) +
       (this.adj ? 37 * this.pixels : 0) + 12 * this.offCount;
   }
 
@@ -202,7 +204,7 @@ export class HexWorkspace {
     if (this.disposed) return;
     this.disposed = true;
     for (const p of [this.phasePtr, this.labelPtr, this.parPtr, this.cqPtr, this.sxPtr, this.syPtr, this.wfPtr, this.finPtr,
-      this.statsPtr, this.colPtr, this.skPtr, this.candPtr, this.listPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
+      this.statsPtr, this.trigPtr, this.colPtr, this.skPtr, this.candPtr, this.listPtr, this.distPtr, this.offPtr, this.lenPtr]) if (p) wasmFree(p);
     if (this.adj) for (const p of [this.adj.deg, this.adj.list, this.adj.nbr]) wasmFree(p);
   }
 
