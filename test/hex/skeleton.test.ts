@@ -87,6 +87,31 @@ describe("hexagonal skeletons of drawn and generated shapes", () => {
   });
 });
 
+describe("a hexagonal bubble lattice", () => {
+  it("is 256 bubbles of the drawn diameter on a periodic torus, and the other phase one labyrinth", () => {
+    // Discs of radius 3 at the sites of a triangular lattice of spacing 8 (rows along x), 16 x 16 on a 128 x 128 torus.
+    const a = 8;
+    const f = hexShape(128, 128, (X, Y) => {
+      let best = Infinity;
+      const j0 = Math.round(Y / (a * Math.sqrt(3) / 2));
+      for (let j = j0 - 1; j <= j0 + 1; j++) {
+        const off = (((j % 2) + 2) % 2) * a / 2, i0 = Math.round((X - off) / a);
+        for (let i = i0 - 1; i <= i0 + 1; i++) best = Math.min(best, Math.hypot(X - (i * a + off), Y - j * a * Math.sqrt(3) / 2));
+      }
+      return best < 3;
+    });
+    const r = analyzeFrame(f, { ...HEX, boundary: "periodic", pixelSize: 0.5, unit: "um" });
+    const up = r.skeleton!.up, down = r.skeleton!.down;
+    expect(up.bubble.count).toBe(256);
+    expect(up.stripe.count + up.labyrinth.count).toBe(0);
+    expect(Math.abs(up.bubbleDiameterMean / (2 * 3 * 0.5) - 1)).toBeLessThan(0.1);
+    expect(down.domains).toBe(1);
+    expect(down.labyrinth.count).toBe(1);
+    // Two junctions per bubble in the honeycomb of the down phase's skeleton (one per triangle of bubbles).
+    expect(down.junctionDensity * r.up.area / r.up.areaFraction).toBeCloseTo(512, -1);
+  });
+});
+
 describe("hexagonal thinning keeps topology", () => {
   it("every non-wrapping domain's skeleton has 1 - Euler loops, on periodic mazes and open noise", () => {
     for (const [seed, boundary] of [[1, "periodic"], [2, "periodic"], [3, "open"]] as const) {

@@ -180,10 +180,22 @@ describe("hexagonal topology invariants", () => {
     }
   });
 
+  it("connectivity does not apply on the hexagonal lattice: 8, 4 and saddle give the same result, with a note", () => {
+    const f = randomHex(77, 30, 28, 0.5);
+    const [a, b, c] = ([8, 4, "saddle"] as const).map((connectivity) => hex(f, { connectivity, boundary: "periodic" }));
+    for (const r of [b!, c!]) {
+      expect([r.up.domains, r.down.domains, r.up.euler, r.down.euler, r.wallLength]).toEqual([a!.up.domains, a!.down.domains, a!.up.euler, a!.down.euler, a!.wallLength]);
+    }
+    expect(a!.notes).toEqual(["grid 'hex': both phases are six-connected; options.connectivity is not used"]);
+    expect(analyzeFrame(f, { threshold: 0.5, skeleton: "off", spectrum: "off" }).notes).toBeUndefined();
+  });
+
   it("a periodic y side with an odd number of rows is refused with a clear error", () => {
     expect(() => hex(randomHex(1, 8, 9, 0.5), { boundary: "periodic" })).toThrow(/even height.*got 9/);
     expect(() => hex(randomHex(1, 8, 9, 0.5), { boundary: "periodic-x" })).not.toThrow();
     expect(() => analyzeFrame(randomHex(1, 8, 8, 0.5), { grid: "hexagonal" as never })).toThrow(/options.grid: expected one of "square", "hex"/);
+    expect(() => hex(randomHex(1, 2, 8, 0.5), { boundary: "periodic-x" })).toThrow(/at least 3 sites a row, got 2/);
+    expect(() => hex(randomHex(1, 8, 2, 0.5), { boundary: "periodic-y" })).toThrow(/at least 4 rows, got 2/);
   });
 });
 
