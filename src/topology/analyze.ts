@@ -240,7 +240,8 @@ export class FrameAnalyzer {
   ): { spectrum: SpectrumResult; note: string } {
     const s = o.spectrum as Exclude<ResolvedFrameOptions["spectrum"], "off">;
     const grey = s.signal === "grey";
-    const source: ArrayLike<number> = grey ? frame.data : hw.phase().slice();
+    // The phase map as +1 / -1 (as the square route's binary signal), then interpolated.
+    const source: ArrayLike<number> = grey ? frame.data : Float32Array.from(hw.phase(), (v) => 2 * v - 1);
     const r = resampleHexToSquare(source, this.width, this.height, px, py);
     const spacing = Math.sqrt(r.dx * r.dy);
     // Lengths given in sites (lattice constants) become square-grid pixels of `spacing`.
@@ -253,7 +254,7 @@ export class FrameAnalyzer {
     if (s.ringHalfWidthPx !== undefined) options.ringHalfWidthPx = s.ringHalfWidthPx * spacing;
     if (s.structureSigmaPx !== undefined) options.structureSigmaPx = s.structureSigmaPx / spacing;
     const f = r.frame;
-    const note = `spectrum of a hexagonal frame: ${grey ? "samples" : "phase map (+1/0)"} resampled by linear interpolation ` +
+    const note = `spectrum of a hexagonal frame: ${grey ? "samples" : "phase map (+1/-1)"} resampled by linear interpolation ` +
       `(along the two bracketing rows, then between them) onto a ${f.width} x ${f.height} square grid of spacing ` +
       `${(spacing).toFixed(4)} lattice constants (${HEX_SQUARE_SPACING.toFixed(4)} = one sample per site area)`;
     if (f.width < SPECTRUM_MIN_SIDE || f.height < SPECTRUM_MIN_SIDE) return { spectrum: analyzeSpectrum(f, options), note };
