@@ -257,7 +257,11 @@ export class FrameAnalyzer {
     const note = `spectrum of a hexagonal frame: ${grey ? "samples" : "phase map (+1/-1)"} resampled by linear interpolation ` +
       `(along the two bracketing rows, then between them) onto a ${f.width} x ${f.height} square grid of spacing ` +
       `${(spacing).toFixed(4)} lattice constants (${HEX_SQUARE_SPACING.toFixed(4)} = one sample per site area)`;
-    if (f.width < SPECTRUM_MIN_SIDE || f.height < SPECTRUM_MIN_SIDE) return { spectrum: analyzeSpectrum(f, options), note };
+    if (f.width < SPECTRUM_MIN_SIDE || f.height < SPECTRUM_MIN_SIDE) {
+      const spectrum = analyzeSpectrum(f, options);
+      if (spectrum.reason) spectrum.reason += ` (the square resampling of the ${this.width} x ${this.height} hexagonal frame)`;
+      return { spectrum, note };
+    }
     if (!this.spectrumWs || this.spectrumWs.width !== f.width || this.spectrumWs.height !== f.height) {
       this.spectrumWs?.dispose();
       this.spectrumWs = createSpectrumWorkspace(f.width, f.height);

@@ -39,6 +39,12 @@ describe("the spectrum of a hexagonal frame", () => {
     }
   });
 
+  it("a frame too small for a ring says so, naming the square resampling and the hexagonal frame", () => {
+    const r = analyzeFrame(hexField(8, 8, (X) => Math.cos(X)), { ...PERIODIC, grid: "hex" });
+    expect(r.spectrum!.period).toBeUndefined();
+    expect(r.spectrum!.reason).toMatch(/too small for a ring: 9 x 7.*square resampling of the 8 x 8 hexagonal frame/);
+  });
+
   it("gives a stripe period in lattice constants times pixelSize, with nematic order 1", () => {
     // Stripes of period 16 along x on a 128-site torus: 8 periods exactly (CHECKS.md: stripes
     // give nematic order 1).
