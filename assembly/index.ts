@@ -9,3 +9,5 @@ export * from "./edt";
 export * from "./skeleton-graph";
 export * from "./fft";
 export * from "./spectrum";
+export * from "./hex-label";
+export * from "./hex-thin";

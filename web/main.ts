@@ -21,6 +21,7 @@ const el = {
   thresholdMode: $<HTMLSelectElement>("threshold-mode"),
   thresholdLevel: $<HTMLInputElement>("threshold-level"),
   invert: $<HTMLInputElement>("invert"),
+  grid: $<HTMLSelectElement>("grid"),
   connectivity: $<HTMLSelectElement>("connectivity"),
   boundary: $<HTMLSelectElement>("boundary"),
   pixelSize: $<HTMLInputElement>("pixel-size"),
@@ -92,7 +93,8 @@ function readOptions(): FrameOptions | string {
   if (!Number.isInteger(minDomainArea) || minDomainArea < 0) return invalid(el.minArea, "Smallest domain: expected a whole number of pixels, 0 or more.");
   const c = el.connectivity.value;
   return {
-    threshold, invert: el.invert.checked, connectivity: c === "saddle" ? "saddle" : c === "4" ? 4 : 8,
+    threshold, invert: el.invert.checked, grid: el.grid.value === "hex" ? "hex" : "square",
+    connectivity: c === "saddle" ? "saddle" : c === "4" ? 4 : 8,
     boundary: el.boundary.value as FrameOptions["boundary"], pixelSize, unit, minDomainArea,
   };
 }
@@ -497,7 +499,9 @@ const changed = () => {
 };
 const rerun = () => { clearTimeout(pending); pending = setTimeout(() => { if (changed()) startAnalysis(); }, 250); };
 el.thresholdMode.addEventListener("change", () => { el.thresholdLevel.disabled = el.thresholdMode.value !== "level"; startAnalysis(); });
-for (const control of [el.invert, el.connectivity, el.boundary]) control.addEventListener("change", startAnalysis);
+for (const control of [el.invert, el.grid, el.connectivity, el.boundary]) control.addEventListener("change", startAnalysis);
+// Six-connected phases on a hexagonal lattice: the connectivity choice does not apply there.
+el.grid.addEventListener("change", () => { el.connectivity.disabled = el.grid.value === "hex"; });
 for (const control of [el.thresholdLevel, el.pixelSize, el.unit, el.minArea]) {
   control.addEventListener("input", rerun);
   control.addEventListener("change", () => { clearTimeout(pending); if (changed()) startAnalysis(); });

@@ -1,6 +1,6 @@
 // The page's analysis worker: one analyzer per frame shape for the life of the worker, the
 // library's own readers and analysis, replies in the pool's {id, ok, result | message} form.
-import { createAnalyzer, domainRows, frameRow, init, sourceFromBytes, type Frame, type FrameAnalyzer } from "../src/index";
+import { createAnalyzer, domainRows, frameRow, hexRaster, init, sourceFromBytes, type Frame, type FrameAnalyzer } from "../src/index";
 import type { FrameJob, FrameReply, FrameViews, RgbaImage } from "./protocol";
 
 let analyzer: FrameAnalyzer | undefined;
@@ -35,6 +35,14 @@ function rawImage(frame: Frame, invert: boolean): RgbaImage {
   return { width, height, rgba };
 }
 
+function hexRawImage(grey: RgbaImage, width: number, height: number, scale: number): RgbaImage {
+  const img = hexRaster(width, height, Math.max(3, scale), (site) => {
+    const g = grey.rgba[4 * site]!;
+    return [g, g, g];
+  });
+  return { width: img.width, height: img.height, rgba: new Uint8ClampedArray(img.rgba.buffer, img.rgba.byteOffset, img.rgba.length) };
+}
+
 async function handle(job: FrameJob): Promise<{ reply: FrameReply; transfer: ArrayBuffer[] }> {
   await ready;
   let frame: Frame;
@@ -56,9 +64,11 @@ async function handle(job: FrameJob): Promise<{ reply: FrameReply; transfer: Arr
   };
   const transfer: ArrayBuffer[] = [];
   if (job.view) {
-    const o = a.overlay({ scale: job.view.overlayScale });
+    const o = a.overlay({ scale: job.options.grid === "hex" ? Math.max(3, job.view.overlayScale) : job.view.overlayScale });
+    // A hexagonal frame is drawn as hexagonal cells (not sheared), at the overlay's scale.
+    const raw = job.options.grid === "hex" ? hexRawImage(rawImage(frame, false), frame.width, frame.height, job.view.overlayScale) : rawImage(frame, false);
     const views: FrameViews = {
-      raw: rawImage(frame, false),
+      raw,
       overlay: { width: o.width, height: o.height, rgba: new Uint8ClampedArray(o.rgba.buffer, o.rgba.byteOffset, o.rgba.length) },
     };
     const sp = r.spectrum;

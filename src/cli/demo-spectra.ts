@@ -6,6 +6,7 @@ import { join } from "node:path";
 import { createSpectrumWorkspace, renderSpectrum, type SpectrumResult, type SpectrumWorkspace } from "../spectrum";
 import { encodeRgbaPng } from "../io/png";
 import { csvLine } from "../topology/rows";
+import { resampleHexToSquare } from "../spectrum/hex";
 
 /** Frames whose spectra are kept: the one nearest zero field, and one at 2/3 of the lowest field. */
 export function spectrumFrames(fields: readonly number[]): number[] {
@@ -21,7 +22,10 @@ export class DemoSpectra {
   private images: Array<[string, Uint8Array]> = [];
   readonly frames: number[];
 
-  constructor(private width: number, private height: number, fields: readonly number[], fieldColumn: string, unit: string) {
+  constructor(
+    private width: number, private height: number, fields: readonly number[], fieldColumn: string, unit: string,
+    private grid: "square" | "hex" = "square",
+  ) {
     this.frames = spectrumFrames(fields);
     this.csv = csvLine(["frame", fieldColumn, `q_per_${unit.replace(/[^A-Za-z0-9µ]+/g, "")}`, "S"]);
   }
@@ -34,14 +38,22 @@ export class DemoSpectra {
     if (!this.frames.includes(k) || !result) return;
     const p = result.profile;
     for (let b = 0; b < p.q.length; b++) this.csv += csvLine([k, field, p.q[b]!, p.annulusMean[b]!]);
-    this.ws ??= createSpectrumWorkspace(this.width, this.height);
-    this.ws.analyze({ width: this.width, height: this.height, data: phase }, result.options);
+    // A hexagonal frame's spectrum is that of its square resampling (what `result` was computed from).
+    const periodic = result.options.boundary === "periodic";
+    const frame = this.grid === "hex"
+      ? resampleHexToSquare(phase, this.width, this.height, periodic, periodic).frame
+      : { width: this.width, height: this.height, data: phase };
+    if (!this.ws || this.ws.width !== frame.width || this.ws.height !== frame.height) {
+      this.ws?.dispose();
+      this.ws = createSpectrumWorkspace(frame.width, frame.height);
+    }
+    this.ws.analyze(frame, result.options);
     const spectrum = this.ws.powerSpectrum();
     const img = renderSpectrum(spectrum, result.peakQ !== undefined ? { peakQ: result.peakQ } : {});
     // The centre: out to 4 ring radii (at least 16 px, at most the whole spectrum), magnified
     // by whole pixels to at least 128 px a side.
-    const side = Math.min(this.width, this.height);
-    const ringPx = result.peakQ !== undefined ? result.peakQ * spectrum.pixelSize * Math.max(this.width, this.height) : side / 8;
+    const side = Math.min(frame.width, frame.height);
+    const ringPx = result.peakQ !== undefined ? result.peakQ * spectrum.pixelSize * Math.max(frame.width, frame.height) : side / 8;
     const half = Math.min(Math.floor(side / 2), Math.max(16, Math.ceil(4 * ringPx)));
     const scale = Math.max(1, Math.ceil(128 / (2 * half)));
     const out = 2 * half * scale;

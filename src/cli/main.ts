@@ -37,6 +37,9 @@ const FRAME_OPTIONS_HELP = `Frame options:
   --invert              dark samples are up (default: bright = up)
   --connectivity C      connectivity of the up phase: 8, 4 or saddle (down gets the other) [8]
   --boundary B          open, periodic, periodic-x or periodic-y [open]
+  --grid G              square, or hex: a hexagonal lattice in offset rows (odd rows shifted
+                        right by half a site, rows sqrt(3)/2 apart; --pixel-size is the lattice
+                        constant; both phases six-connected, --connectivity unused) [square]
   --min-area N          absorb domains smaller than N pixels into their surroundings [0]
   --pixel-size S        length of one pixel, in --unit [1]
   --unit U              length unit of the tables [px]`;
@@ -69,6 +72,8 @@ Options:
   --size N              frame side in pixels, a power of two [256]
   --pattern P           maze or stripes [maze]
   --seed N              seed of the pattern and the noise [3]
+  --grid G              square, or hex: both sweeps sampled at the sites of a hexagonal lattice
+                        (offset rows, see the frame options) and analyzed as such [square]
   --quiet               no progress and no summary
   -h, --help            this help
 
@@ -151,6 +156,7 @@ const FRAME_FLAGS = {
   invert: { type: "boolean" },
   connectivity: { type: "string" },
   boundary: { type: "string" },
+  grid: { type: "string" },
   "min-area": { type: "string" },
   "pixel-size": { type: "string" },
   unit: { type: "string" },
@@ -191,6 +197,11 @@ function frameOptions(values: Record<string, unknown>, defaults: FrameOptions): 
     o.connectivity = c === "saddle" ? "saddle" : (Number(c) as 8 | 4);
   }
   if (values.boundary !== undefined) o.boundary = values.boundary as FrameOptions["boundary"];
+  const g = values.grid as string | undefined;
+  if (g !== undefined) {
+    if (g !== "square" && g !== "hex") throw new UsageError(`--grid: expected square or hex, got ${JSON.stringify(g)}`);
+    o.grid = g;
+  }
   const m = number("min-area", values["min-area"] as string | undefined);
   if (m !== undefined) o.minDomainArea = m;
   const s = number("pixel-size", values["pixel-size"] as string | undefined);
@@ -233,7 +244,10 @@ async function runDemo(argv: string[]): Promise<number> {
   if (pattern !== "maze" && pattern !== "stripes") {
     throw new UsageError(`--pattern: expected maze or stripes, got ${JSON.stringify(pattern)}`);
   }
+  const grid = values.grid as string | undefined;
+  if (grid !== undefined && grid !== "square" && grid !== "hex") throw new UsageError(`--grid: expected square or hex, got ${JSON.stringify(grid)}`);
   const sweep = demoSweep({
+    grid: grid === "hex" ? "hex" : "square",
     frames: number("frames", values.frames as string | undefined),
     size: number("size", values.size as string | undefined),
     seed: number("seed", values.seed as string | undefined),
@@ -251,7 +265,7 @@ async function runDemo(argv: string[]): Promise<number> {
   };
   const fieldsCsv = new AtomicWriter(join(out, "fields.csv"));
   const analyzer = createAnalyzer(sweep.width, sweep.height);
-  const spectra = new DemoSpectra(sweep.width, sweep.height, sweep.fields, fieldCol, sweep.unit);
+  const spectra = new DemoSpectra(sweep.width, sweep.height, sweep.fields, fieldCol, sweep.unit, sweep.grid);
   const progress = new Progress(sweep.fields.length, "demo", process.stderr, !quiet);
   const started = performance.now();
   let analysisMs = 0;
@@ -271,7 +285,7 @@ async function runDemo(argv: string[]): Promise<number> {
       picks.push({ field: sweep.fields[k]!, m: r.magnetization, up: r.up.domains, down: r.down.domains, eu: r.up.euler, ed: r.down.euler });
       const every = Math.max(1, Math.round((sweep.fields.length - 1) / 8));
       if (r.skeleton && (k % every === 0 || k === sweep.fields.length - 1)) {
-        const img = analyzer.overlay({ scale: 2 });
+        const img = analyzer.overlay({ scale: sweep.grid === "hex" ? 4 : 2 });
         writeFileAtomic(join(out, "overlays", `frame-${String(k).padStart(4, "0")}.png`), encodeRgbaPng(img.width, img.height, img.rgba));
       }
       progress.tick(k + 1);
@@ -314,7 +328,7 @@ async function runDemo(argv: string[]): Promise<number> {
     process.stdout.write(lines.join("\n") + "\n");
   }
   // The hysteretic sweep (major loop and reversal curves), then the report of the whole folder.
-  const loop = runDemoLoop(out, options);
+  const loop = runDemoLoop(out, options, { grid: sweep.grid });
   const html = await buildReport(out);
   writeFileAtomic(join(out, "report.html"), html);
   if (!quiet) {
@@ -439,7 +453,7 @@ async function runAnalyze(argv: string[]): Promise<number> {
     options: { frame: options, domains: Boolean(values.domains), ...(preprocess ? { preprocess } : {}) }, fields,
     ...(backgroundFile ? { backgroundFile } : {}),
     ...(values.track ? { tracking: { ...(maxDisplacement !== undefined ? { maxDisplacement } : {}) } } : {}),
-    ...(overlaysEvery !== undefined ? { overlay: { every: overlaysEvery, scale: 2 } } : {}),
+    ...(overlaysEvery !== undefined ? { overlay: { every: overlaysEvery, scale: options.grid === "hex" ? 4 : 2 } } : {}),
     ...(spectraEvery !== undefined ? { spectra: { every: spectraEvery } } : {}),
     workers, resume: Boolean(values.resume), strict: Boolean(values.strict),
     onProgress: (d) => progress.tick(d),

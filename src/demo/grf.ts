@@ -160,3 +160,94 @@ export function derivativeVariances(data: ArrayLike<number>, width: number, heig
   // Parseval: mean of f^2 = total / n^2; scale the derivative sums the same way.
   return { variance: total / (n * n), dx2: dx2 / (n * n), dy2: dy2 / (n * n) };
 }
+
+export interface HexRandomField extends RandomField {
+  /** Always 'hex': site (x, y) of `data` sits at (x + (y & 1) / 2, y sqrt(3)/2) lattice constants. */
+  grid: "hex";
+}
+
+/**
+ * A seeded periodic Gaussian random field sampled at the sites of a hexagonal lattice in offset
+ * rows (odd rows shifted right by half a site, row spacing sqrt(3)/2; lengths in lattice
+ * constants). The torus is `width` lattice constants by `height` sqrt(3)/2; the field is the real
+ * part of a trigonometric polynomial synthesized on the 2 width x height rectangular grid of
+ * spacing 1/2 x sqrt(3)/2 that holds every site exactly (even rows at even columns, odd rows at
+ * odd ones), with the power a function of the physical wave number only (isotropic). Periods and
+ * smoothing lengths are in lattice constants. Sizes: powers of two, height even.
+ * `lambda2x` / `lambda2y` are the mean square derivatives per lattice constant of the
+ * unit-variance field (exact, spectral); variance and mean are those of the continuous field
+ * (0 and 1), not of the sampled sites.
+ */
+export function hexGaussianRandomField(options: RandomFieldOptions): HexRandomField {
+  const width = checkSize("width", options.width);
+  const height = checkSize("height", options.height);
+  if (!isPowerOfTwo(width) || !isPowerOfTwo(height)) {
+    throw new Error(`hexagonal random field: expected power-of-two sizes, got ${width} x ${height}`);
+  }
+  const row = Math.sqrt(3) / 2;
+  const spectrum = options.spectrum ?? "ring";
+  const period = checkPositive("period", options.period ?? 24);
+  const bandwidth = checkPositive("bandwidth", options.bandwidth ?? 0.15);
+  const smoothing = checkPositive("smoothing", options.smoothing ?? 4);
+  const alignment = options.alignment ?? 0;
+  const dir = ((options.direction ?? 0) * Math.PI) / 180;
+  const normal = normalSource((options.seed ?? 1) * 2654435761 + 977);
+  const q0 = 1 / period, dq = bandwidth / period;
+  const gw = 2 * width, gh = height;
+  const grid = new Float64Array(2 * gw * gh);
+  for (let ky = 0; ky < gh; ky++) {
+    const fy = (ky <= gh / 2 ? ky : ky - gh) / (gh * row); // cycles per lattice constant
+    for (let kx = 0; kx < gw; kx++) {
+      const fx = (kx <= gw / 2 ? kx : kx - gw) / (gw * 0.5);
+      const q = Math.hypot(fx, fy);
+      let power = 0;
+      if (q > 0) {
+        power = spectrum === "ring"
+          ? Math.exp(-((q - q0) ** 2) / (2 * dq * dq))
+          : Math.exp(-((2 * Math.PI * q) ** 2) * smoothing * smoothing);
+        if (alignment > 0) power *= Math.exp(alignment * (Math.cos(2 * (Math.atan2(fy, fx) - dir)) - 1));
+      }
+      const amp = Math.sqrt(power);
+      const j = 2 * (ky * gw + kx);
+      grid[j] = amp * normal();
+      grid[j + 1] = amp * normal();
+    }
+  }
+  const rowFft = new FFT(gw), colFft = new FFT(gh);
+  const rowIn = rowFft.createComplexArray() as number[], rowOut = rowFft.createComplexArray() as number[];
+  for (let y = 0; y < gh; y++) {
+    const o = 2 * y * gw;
+    for (let i = 0; i < 2 * gw; i++) rowIn[i] = grid[o + i]!;
+    rowFft.inverseTransform(rowOut, rowIn);
+    for (let i = 0; i < 2 * gw; i++) grid[o + i] = rowOut[i]!;
+  }
+  const colIn = colFft.createComplexArray() as number[], colOut = colFft.createComplexArray() as number[];
+  for (let x = 0; x < gw; x++) {
+    for (let y = 0; y < gh; y++) {
+      colIn[2 * y] = grid[2 * (y * gw + x)]!;
+      colIn[2 * y + 1] = grid[2 * (y * gw + x) + 1]!;
+    }
+    colFft.inverseTransform(colOut, colIn);
+    for (let y = 0; y < gh; y++) {
+      grid[2 * (y * gw + x)] = colOut[2 * y]!;
+      grid[2 * (y * gw + x) + 1] = colOut[2 * y + 1]!;
+    }
+  }
+  // Mean and variance over the full rectangular grid are those of the continuous field (it
+  // samples the trigonometric polynomial completely); normalize by them, then pick the sites.
+  const gn = gw * gh;
+  const real = new Float64Array(gn);
+  let mean = 0;
+  for (let i = 0; i < gn; i++) { real[i] = grid[2 * i]!; mean += real[i]!; }
+  mean /= gn;
+  let variance = 0;
+  for (let i = 0; i < gn; i++) variance += (real[i]! - mean) ** 2;
+  variance /= gn;
+  const scale = variance > 0 ? 1 / Math.sqrt(variance) : 0;
+  for (let i = 0; i < gn; i++) real[i] = (real[i]! - mean) * scale;
+  const { dx2, dy2 } = derivativeVariances(real, gw, gh);
+  const data = new Float32Array(width * height);
+  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) data[y * width + x] = real[y * gw + 2 * x + (y & 1)]!;
+  // Per grid step -> per lattice constant: x steps are 1/2, y steps sqrt(3)/2.
+  return { width, height, data, lambda2x: dx2 * 4, lambda2y: dy2 / (row * row), grid: "hex" };
+}

@@ -6,7 +6,7 @@
 // frames remember the field history: a major loop and first-order reversal curves (FORC).
 // SYNTHETIC: the frames are generated, never measured.
 import type { Frame } from "../types";
-import { gaussianRandomField } from "./grf";
+import { gaussianRandomField, hexGaussianRandomField } from "./grf";
 import { normalSource, uniformSource } from "./random";
 import { checkSize } from "../frame";
 
@@ -19,6 +19,8 @@ export interface HysteresisDemoOptions {
   reversalCurves?: number;
   /** Seed of both random fields and of the camera noise. @default 5 */
   seed?: number;
+  /** `'hex'`: the fields sampled at hexagonal sites in offset rows (see DemoSweepOptions.grid). @default 'square' */
+  grid?: "square" | "hex";
 }
 
 /** Where a frame sits in the field history. */
@@ -79,8 +81,9 @@ export function hysteresisDemo(options: HysteresisDemoOptions = {}): HysteresisD
   if (perBranch < 3) throw new Error(`hysteresis demo framesPerBranch: expected at least 3, got ${perBranch}`);
   const curves = checkSize("hysteresis demo reversalCurves", options.reversalCurves ?? 12);
   const seed = options.seed ?? 5;
-  const x = gaussianRandomField({ width: size, height: size, period: PERIOD_PX, bandwidth: 0.15, seed });
-  const y = gaussianRandomField({ width: size, height: size, spectrum: "gaussian", smoothing: 12, seed: seed + 101 });
+  const grf = options.grid === "hex" ? hexGaussianRandomField : gaussianRandomField;
+  const x = grf({ width: size, height: size, period: PERIOD_PX, bandwidth: 0.15, seed });
+  const y = grf({ width: size, height: size, spectrum: "gaussian", smoothing: 12, seed: seed + 101 });
   const n = size * size;
   const alpha = new Float32Array(n);
   const beta = new Float32Array(n);
@@ -140,9 +143,9 @@ export function hysteresisDemo(options: HysteresisDemoOptions = {}): HysteresisD
   };
 
   const scenario =
-    `Synthetic hysteresis of an invented perpendicular-anisotropy film ("sample DT-H"), imaged at ` +
-    `${PIXEL_NM} nm per pixel: a major loop from +${SATURATION_MT} to -${SATURATION_MT} mT and back, and ` +
-    `${reversalFields.length} first-order reversal curves. Each pixel is a square hysteron with switching ` +
+    `Synthetic hysteresis of an invented perpendicular-anisotropy film ("sample DT-H"), ` +
+    `${options.grid === "hex" ? `simulated on a hexagonal lattice of ${PIXEL_NM} nm lattice constant (offset rows)` : `imaged at ${PIXEL_NM} nm per pixel`}: a major loop from +${SATURATION_MT} to -${SATURATION_MT} mT and back, and ` +
+    `${reversalFields.length} first-order reversal curves. Each ${options.grid === "hex" ? "site" : "pixel"} is a square hysteron with switching ` +
     `fields -s X +- Hk (X a Gaussian random field of period ${PERIOD_PX * PIXEL_NM} nm, s = ${INTERACTION_MT} mT, ` +
     `Hk about ${COERCIVITY_MT} mT); frames are generated with camera noise, not measurements.`;
 

@@ -2,7 +2,7 @@
 // thresholding one Gaussian random field at levels that follow the applied field. It runs from
 // isolated bubbles of one phase through a maze to bubbles of the other phase.
 import type { Frame } from "../types";
-import { gaussianRandomField } from "./grf";
+import { gaussianRandomField, hexGaussianRandomField } from "./grf";
 import { normalSource } from "./random";
 import { checkSize } from "../frame";
 
@@ -15,6 +15,12 @@ export interface DemoSweepOptions {
   pattern?: "maze" | "stripes";
   /** Seed of the pattern and of the camera noise. @default 3 */
   seed?: number;
+  /**
+   * `'hex'`: sample the pattern at the sites of a hexagonal lattice in offset rows (odd rows
+   * shifted right by half a site, row spacing sqrt(3)/2; the pixel size is the lattice constant),
+   * as lattice simulations write them; analyze such frames with `grid: 'hex'`. @default 'square'
+   */
+  grid?: "square" | "hex";
 }
 
 export interface DemoSweep {
@@ -29,6 +35,8 @@ export interface DemoSweep {
   threshold: number;
   width: number;
   height: number;
+  /** Lattice of the samples (see DemoSweepOptions.grid). */
+  grid: "square" | "hex";
   /** Frame k as 8-bit grey samples (bright = up). */
   frame(k: number): Frame & { data: Uint8Array };
 }
@@ -47,7 +55,9 @@ export function demoSweep(options: DemoSweepOptions = {}): DemoSweep {
     throw new Error(`demo pattern: expected "maze" or "stripes", got ${JSON.stringify(pattern)}`);
   }
   const seed = options.seed ?? 3;
-  const field = gaussianRandomField({
+  const grid = options.grid ?? "square";
+  if (grid !== "square" && grid !== "hex") throw new Error(`demo grid: expected "square" or "hex", got ${JSON.stringify(grid)}`);
+  const field = (grid === "hex" ? hexGaussianRandomField : gaussianRandomField)({
     width: size, height: size, period: PERIOD_PX, bandwidth: 0.12, seed,
     alignment: pattern === "stripes" ? 12 : 0, direction: 30,
   });
@@ -56,12 +66,12 @@ export function demoSweep(options: DemoSweepOptions = {}): DemoSweep {
   const scenario =
     `Synthetic field sweep of an invented perpendicular-anisotropy multilayer ("sample DT-3"), ` +
     `${pattern === "maze" ? "demagnetized into a maze" : "with stripes aligned by an in-plane field history"}, ` +
-    `imaged at ${PIXEL_NM} nm per pixel while the out-of-plane field steps from -${FIELD_MT} to ` +
+    `${grid === "hex" ? `simulated on a hexagonal lattice of ${PIXEL_NM} nm lattice constant (offset rows)` : `imaged at ${PIXEL_NM} nm per pixel`} while the out-of-plane field steps from -${FIELD_MT} to ` +
     `+${FIELD_MT} mT. Frames are thresholded Gaussian random fields (period ${PERIOD_PX * PIXEL_NM} nm) ` +
     `with camera noise, not measurements.`;
   return {
     scenario, pixelSize: PIXEL_NM, unit: "nm", fieldUnit: "mT", fields, threshold: 127.5,
-    width: size, height: size,
+    width: size, height: size, grid,
     frame(k: number) {
       if (!Number.isInteger(k) || k < 0 || k >= count) {
         throw new Error(`demo frame: expected an index in 0..${count - 1}, got ${k}`);

@@ -3,7 +3,9 @@ import type { Frame } from "../types";
 import { checkFrame, checkSize } from "../frame";
 import { LabelingWorkspace, type QuadStats, type RuleCode } from "../wasm/labeling";
 import { resolveLevel, type ResolvedLevel } from "../prep/threshold";
-import { resolveFrameOptions, type FrameOptions, type ResolvedFrameOptions } from "./options";
+import { resolveFrameOptions, checkHexShape, type FrameOptions, type ResolvedFrameOptions } from "./options";
+import { HexWorkspace } from "../wasm/hex";
+import { buildHexDomainTable, hexPhaseEulers, hexFrameWallLength, HEX_SITE_AREA } from "./hex";
 import { buildDomainTable, croftonLength, type DomainTable } from "./domains";
 import { createSpectrumWorkspace, SPECTRUM_MIN_SIDE, type SpectrumWorkspace } from "../spectrum/workspace";
 import { analyzeSpectrum } from "../spectrum/analyze";
@@ -14,6 +16,8 @@ import type { SkeletonColumns, PhaseSkeletonSummary } from "./classify";
 import { SkeletonWorkspace } from "../wasm/skeleton";
 import { overlayPixels, type OverlayImage, type OverlayOptions } from "../render/overlay";
 import { renderSpectrum, type SpectrumImage } from "../spectrum/render";
+import { analyzeHexSkeletons } from "./skeleton-hex";
+import { resampleHexToSquare, HEX_SQUARE_SPACING } from "../spectrum/hex";
 
 /** Skeleton results of a frame: per-domain columns (row i = domain id i + 1) and per-phase summaries. */
 export interface FrameSkeletons {
@@ -66,6 +70,8 @@ export interface FrameResult {
   skeleton?: FrameSkeletons;
   /** The label image (ids 1..K; row i of `domains` is id i + 1), when `keepLabels` is set. */
   labels?: Int32Array;
+  /** Remarks on how the options were applied (e.g. `connectivity` on a hexagonal grid). */
+  notes?: string[];
 }
 
 function ruleCode(o: ResolvedFrameOptions): RuleCode {
@@ -119,6 +125,8 @@ export class FrameAnalyzer {
   private skeletonWs: SkeletonWorkspace | undefined;
   private lastSkeleton: SkeletonAnalysis | undefined;
   private lastMaps: { phase: Uint8Array; labels: Int32Array } | undefined;
+  private hexWs: HexWorkspace | undefined;
+  private lastGrid: "square" | "hex" = "square";
 
   constructor(width: number, height: number) {
     checkSize("analyzer width", width);
@@ -137,11 +145,14 @@ export class FrameAnalyzer {
       );
     }
     const o = resolveFrameOptions(options);
+    if (o.grid === "hex") checkHexShape(this.width, this.height, o.boundary, where);
+    this.lastGrid = o.grid;
     const ws = this.ws;
     const kind = ws.loadSamples(frame.data);
     const level = resolveLevel(ws, kind, o.threshold, where);
     const nan = ws.threshold(kind, level.cut, o.invert);
     if (nan > 0) throw new Error(`${where}: expected finite samples, got ${nan} NaN sample(s)`);
+    if (o.grid === "hex") return this.analyzeHex(frame, o, level);
     const rule = ruleCode(o);
     if (rule === 2) ws.saddleDecisions(kind, level.level, o.invert);
     const px = o.boundary === "periodic" || o.boundary === "periodic-x";
@@ -166,13 +177,96 @@ export class FrameAnalyzer {
     }
     const stats = ws.measureQuads();
     const domains = buildDomainTable(ws, o.pixelSize);
-    const result = summarize(this.width, this.height, o, level, stats, domains, absorbed,
-      o.keepLabels ? ws.labels().slice() : undefined);
+    const [n0, n90, n45, n135] = frameCrossings(stats);
+    const result = summarize(this.width, this.height, o, level, phaseEulers(stats),
+      croftonLength(n0, n90, n45, n135) * o.pixelSize, this.width * this.height * o.pixelSize ** 2,
+      domains, absorbed, o.keepLabels ? ws.labels().slice() : undefined);
     this.lastSkeleton = undefined;
     this.lastMaps = undefined;
     if (o.skeleton !== "off") result.skeleton = this.skeletonsOf(o, rule);
     if (o.spectrum !== "off") result.spectrum = this.spectrumOf(frame, o);
     return result;
+  }
+
+  /** The hexagonal path of `analyze`, after thresholding (see Grid in options.ts). */
+  private analyzeHex(frame: Frame, o: ResolvedFrameOptions, level: ResolvedLevel): FrameResult {
+    const hw = (this.hexWs ??= new HexWorkspace(this.width, this.height));
+    hw.loadPhase(this.ws.phase());
+    const px = o.boundary === "periodic" || o.boundary === "periodic-x";
+    const py = o.boundary === "periodic" || o.boundary === "periodic-y";
+    hw.label(px, py);
+    const absorbed = { up: 0, down: 0 };
+    if (o.minDomainArea > 1) {
+      for (const p of [1, 0] as const) {
+        const area = hw.column("area"), phase = hw.column("phase");
+        let count = 0;
+        for (let d = 1; d <= hw.domainCount; d++) if (phase[d] === p && area[d]! < o.minDomainArea) count++;
+        if (count === 0) continue;
+        hw.absorb(p, o.minDomainArea);
+        if (p === 1) absorbed.up = count; else absorbed.down = count;
+        hw.label(px, py);
+      }
+    }
+    const s = o.pixelSize;
+    const stats = hw.stats();
+    const domains = buildHexDomainTable(hw, s);
+    const result = summarize(this.width, this.height, o, level, hexPhaseEulers(stats),
+      hexFrameWallLength(stats) * s, this.width * this.height * HEX_SITE_AREA * s * s,
+      domains, absorbed, o.keepLabels ? hw.labels().slice() : undefined);
+    result.notes = ["grid 'hex': both phases are six-connected; options.connectivity is not used"];
+    this.lastSkeleton = undefined;
+    this.lastMaps = undefined;
+    if (o.skeleton !== "off") {
+      const phase = hw.phase().slice(), labels = hw.labels().slice();
+      const sk = o.skeleton as Exclude<ResolvedFrameOptions["skeleton"], "off">;
+      const { thinning: _thinning, ...rest } = sk;
+      const a = analyzeHexSkeletons(hw, { width: this.width, height: this.height, phase, labels, count: hw.domainCount },
+        { ...rest, boundary: o.boundary, pixelSize: s });
+      this.lastSkeleton = a;
+      this.lastMaps = { phase, labels };
+      result.skeleton = { options: a.options, columns: a.columns, up: a.up, down: a.down };
+      if (o.keepLabels) result.skeleton.pruned = a.pruned;
+    }
+    if (o.spectrum !== "off") {
+      const r = this.hexSpectrumOf(frame, o, hw, px, py);
+      result.spectrum = r.spectrum;
+      result.notes.push(r.note);
+    }
+    return result;
+  }
+
+  private hexSpectrumOf(
+    frame: Frame, o: ResolvedFrameOptions, hw: HexWorkspace, px: boolean, py: boolean,
+  ): { spectrum: SpectrumResult; note: string } {
+    const s = o.spectrum as Exclude<ResolvedFrameOptions["spectrum"], "off">;
+    const grey = s.signal === "grey";
+    // The phase map as +1 / -1 (as the square route's binary signal), then interpolated.
+    const source: ArrayLike<number> = grey ? frame.data : Float32Array.from(hw.phase(), (v) => 2 * v - 1);
+    const r = resampleHexToSquare(source, this.width, this.height, px, py);
+    const spacing = Math.sqrt(r.dx * r.dy);
+    // Lengths given in sites (lattice constants) become square-grid pixels of `spacing`.
+    const options: SpectrumOptions = {
+      ...s, signal: "grey", pixelSize: o.pixelSize * spacing, lengthUnit: o.unit,
+      boundary: o.boundary === "periodic" ? "periodic" : "open",
+    };
+    if (s.minPeriodPx !== undefined) options.minPeriodPx = s.minPeriodPx / spacing;
+    if (s.maxPeriodPx !== undefined) options.maxPeriodPx = s.maxPeriodPx / spacing;
+    if (s.ringHalfWidthPx !== undefined) options.ringHalfWidthPx = s.ringHalfWidthPx * spacing;
+    if (s.structureSigmaPx !== undefined) options.structureSigmaPx = s.structureSigmaPx / spacing;
+    const f = r.frame;
+    const note = `spectrum of a hexagonal frame: ${grey ? "samples" : "phase map (+1/-1)"} resampled by linear interpolation ` +
+      `(along the two bracketing rows, then between them) onto a ${f.width} x ${f.height} square grid of spacing ` +
+      `${(spacing).toFixed(4)} lattice constants (${HEX_SQUARE_SPACING.toFixed(4)} = one sample per site area)`;
+    if (f.width < SPECTRUM_MIN_SIDE || f.height < SPECTRUM_MIN_SIDE) {
+      const spectrum = analyzeSpectrum(f, options);
+      if (spectrum.reason) spectrum.reason += ` (the square resampling of the ${this.width} x ${this.height} hexagonal frame)`;
+      return { spectrum, note };
+    }
+    if (!this.spectrumWs || this.spectrumWs.width !== f.width || this.spectrumWs.height !== f.height) {
+      this.spectrumWs?.dispose();
+      this.spectrumWs = createSpectrumWorkspace(f.width, f.height);
+    }
+    return { spectrum: this.spectrumWs.analyze(f, options), note };
   }
 
   private skeletonsOf(o: ResolvedFrameOptions, rule: RuleCode): FrameSkeletons {
@@ -210,7 +304,8 @@ export class FrameAnalyzer {
     if (!this.lastSkeleton || !this.lastMaps) {
       throw new Error("overlay: analyze a frame with the skeleton on first");
     }
-    return overlayPixels(this.lastSkeleton, this.width, this.height, this.lastMaps.phase, this.lastMaps.labels, options);
+    const o: OverlayOptions = this.lastGrid === "hex" && options.grid === undefined ? { ...options, grid: "hex" } : options;
+    return overlayPixels(this.lastSkeleton, this.width, this.height, this.lastMaps.phase, this.lastMaps.labels, o);
   }
 
   private spectrumOf(frame: Frame, o: ResolvedFrameOptions): SpectrumResult {
@@ -233,26 +328,32 @@ export class FrameAnalyzer {
       boundary: o.boundary === "periodic" ? "periodic" : "open",
     };
     if (this.width < SPECTRUM_MIN_SIDE || this.height < SPECTRUM_MIN_SIDE) return analyzeSpectrum(input, options);
+    if (this.spectrumWs && (this.spectrumWs.width !== this.width || this.spectrumWs.height !== this.height)) {
+      this.spectrumWs.dispose();
+      this.spectrumWs = undefined;
+    }
     this.spectrumWs ??= createSpectrumWorkspace(this.width, this.height);
     return this.spectrumWs.analyze(input, options);
   }
 
   /** View of the last label image (ids 1..K), valid until the next call. */
   labels(): Int32Array {
-    return this.ws.labels();
+    return this.lastGrid === "hex" && this.hexWs ? this.hexWs.labels() : this.ws.labels();
   }
 
   /** View of the last phase map (1 up, 0 down), valid until the next call. */
   phase(): Uint8Array {
-    return this.ws.phase();
+    return this.lastGrid === "hex" && this.hexWs ? this.hexWs.phase() : this.ws.phase();
   }
 
   /** Bytes of Wasm memory this analyzer holds. */
   memoryBytes(): number {
-    return this.ws.bytes();
+    return this.ws.bytes() + (this.hexWs?.bytes() ?? 0);
   }
 
   dispose(): void {
+    this.hexWs?.dispose();
+    this.hexWs = undefined;
     this.ws.dispose();
     this.spectrumWs?.dispose();
     this.spectrumWs = undefined;
@@ -262,15 +363,10 @@ export class FrameAnalyzer {
 }
 
 function summarize(
-  width: number, height: number, o: ResolvedFrameOptions, level: ResolvedLevel, stats: QuadStats,
+  width: number, height: number, o: ResolvedFrameOptions, level: ResolvedLevel,
+  eulers: { up: number; down: number }, wallLength: number, frameArea: number,
   domains: DomainTable, absorbed: { up: number; down: number }, labels: Int32Array | undefined,
 ): FrameResult {
-  const s = o.pixelSize;
-  const pixels = width * height;
-  const frameArea = pixels * s * s;
-  const eulers = phaseEulers(stats);
-  const [n0, n90, n45, n135] = frameCrossings(stats);
-  const wallLength = croftonLength(n0, n90, n45, n135) * s;
   const wallLengthDensity = wallLength / frameArea;
   const phase = (p: 0 | 1): PhaseSummary => {
     let count = 0, area = 0, holes = 0, wrapping = 0, edge = 0;

@@ -22,7 +22,20 @@ export type Boundary = "open" | "periodic" | "periodic-x" | "periodic-y";
  */
 export type Connectivity = 8 | 4 | "saddle";
 
+/**
+ * Lattice of the samples. `'square'`: sample (x, y) at (x, y). `'hex'`: a hexagonal (triangular)
+ * lattice stored in offset rows: row y is shifted right by half a site when y is odd, so site
+ * (x, y) sits at (x + (y & 1) / 2, y * sqrt(3) / 2) in lattice constants, and its six neighbours
+ * are (x +- 1, y) and, in rows y +- 1, (x - 1 + (y & 1), y +- 1) and (x + (y & 1), y +- 1).
+ * `pixelSize` is then the lattice constant (nearest-neighbour distance); each site covers
+ * sqrt(3)/2 pixelSize^2. Both phases are six-connected (`connectivity` is not used). A periodic
+ * y side needs an even height, periodic sides at least 3 sites (x) and 4 rows (y).
+ */
+export type Grid = "square" | "hex";
+
 export interface FrameOptions {
+  /** Lattice of the samples: square pixels or offset-row hexagonal sites (see Grid). @default 'square' */
+  grid?: Grid;
   /** Level between down and up in sample units, `'otsu'` per frame, or `'zero'`. @default 'otsu' */
   threshold?: ThresholdOption;
   /** Take dark samples as up (by default bright = up). @default false */
@@ -53,6 +66,7 @@ export interface FrameOptions {
 }
 
 export interface ResolvedFrameOptions {
+  grid: Grid;
   threshold: ThresholdOption;
   invert: boolean;
   connectivity: Connectivity;
@@ -66,7 +80,7 @@ export interface ResolvedFrameOptions {
 }
 
 const KNOWN = new Set([
-  "threshold", "invert", "connectivity", "boundary", "minDomainArea", "pixelSize", "unit",
+  "grid", "threshold", "invert", "connectivity", "boundary", "minDomainArea", "pixelSize", "unit",
   "keepLabels", "spectrum", "skeleton",
 ]);
 
@@ -79,6 +93,7 @@ export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOp
       throw new Error(`options.${key}: unknown option (known: ${[...KNOWN].join(", ")})`);
     }
   }
+  const grid = checkChoice("options.grid", options.grid ?? "square", ["square", "hex"] as const);
   const threshold = options.threshold ?? "otsu";
   if (typeof threshold === "number") {
     if (!Number.isFinite(threshold)) {
@@ -125,5 +140,20 @@ export function resolveFrameOptions(options: FrameOptions = {}): ResolvedFrameOp
       }
     }
   }
-  return { threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels, spectrum, skeleton };
+  return { grid, threshold, invert, connectivity, boundary, minDomainArea, pixelSize, unit, keepLabels, spectrum, skeleton };
+}
+
+/**
+ * Checks that a frame of this shape can carry a hexagonal lattice with these sides: a periodic y
+ * side needs an even number of rows (the row parity must agree across the wrap) and at least 4,
+ * a periodic x side at least 3 sites (so no site is its own neighbour).
+ */
+export function checkHexShape(width: number, height: number, boundary: Boundary, where = "frame"): void {
+  const px = boundary === "periodic" || boundary === "periodic-x";
+  const py = boundary === "periodic" || boundary === "periodic-y";
+  if (py && height % 2 !== 0) {
+    throw new Error(`${where}: a hexagonal frame periodic in y needs an even height (odd rows are shifted by half a site), got ${height}`);
+  }
+  if (py && height < 4) throw new Error(`${where}: a hexagonal frame periodic in y needs at least 4 rows, got ${height}`);
+  if (px && width < 3) throw new Error(`${where}: a hexagonal frame periodic in x needs at least 3 sites a row, got ${width}`);
 }

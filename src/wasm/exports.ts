@@ -71,3 +71,14 @@ export interface SkeletonGraphKernelExports {
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
   ): void;
 }
+
+// Hexagonal frames (assembly/hex-label.ts, assembly/hex-thin.ts).
+export interface HexKernelExports {
+  hexBindLabel(labelParents: number, componentParents: number, shiftsX: number, shiftsY: number, windings: number, domainIds: number): void;
+  hexLabel(): number;
+  hexMeasure(K: number, columns: number, stats: number, trig: number): void;
+  hexAbsorb(phase: number, minArea: number): number;
+  hexThin(skeleton: number, candidates: number, list: number): number;
+  hexSkeletonDistance(skeleton: number, distance: number, offsets: number, lengths: number, count: number, cap: number): void;
+  hexSkeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
+}

@@ -184,4 +184,25 @@ describe.skipIf(!run)("the browser page", () => {
     const r = analyzeFrame(frames[1]!, options);
     expect(csv[1]![csv[0]!.indexOf("up_domains")]).toBe(String(r.up.domains));
   });
+
+  it("analyzes hexagonal frames (offset rows) to the numbers of analyzeFrame with grid 'hex', drawn as hexagonal cells", async () => {
+    const hex = demoSweep({ size: 64, frames: 3, grid: "hex" });
+    const hexFiles = hex.fields.map((_, k) => ({ name: `hex_${k + 1}.png`, mimeType: "image/png", buffer: Buffer.from(encodePng(hex.frame(k))) }));
+    await page.selectOption("#grid", "hex");
+    expect(await page.isDisabled("#connectivity")).toBe(true);
+    await page.setInputFiles("#table", { name: "field.csv", mimeType: "text/csv", buffer: Buffer.from("frame,H (mT)\n" + hex.fields.map((h, k) => `${k},${h}`).join("\n") + "\n") });
+    await page.setInputFiles("#files", hexFiles);
+    await finished(page, 3, 3);
+    const hexOptions: FrameOptions = { ...options, grid: "hex" };
+    const expected = hexFiles.map((f, k) => {
+      const r = analyzeFrame(hex.frame(k), hexOptions);
+      return [["frame", k], ["source", f.name], ["field_mT", hex.fields[k]!], ...frameRow(r)] as Array<[string, Cell]>;
+    });
+    expect(differences(parseCsv(await download(page, "#save-frames")), expected)).toEqual([]);
+    // Hexagonal cells: the canvas is wider than the frame by half a site and not square.
+    const size = await page.$eval("#frame-canvas", (c) => [(c as HTMLCanvasElement).width, (c as HTMLCanvasElement).height]);
+    expect(size[0]! / size[1]!).toBeCloseTo((64.5) / (63 * Math.sqrt(3) / 2 + 2 / Math.sqrt(3)), 1);
+    await page.screenshot({ path: join(shots, "hex-1366x768.png") });
+    await page.selectOption("#grid", "square");
+  });
 });
