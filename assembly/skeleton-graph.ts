@@ -289,3 +289,33 @@ export function skeletonNeighboursCompact(
   }
   return count;
 }
+
+/**
+ * Pixel count, phase (of the last pixel, 0/1) and largest distance to the other phase of every
+ * domain, run by run of one label: labels (i32, 1..count), ph (u8), dist (f32) of n pixels into
+ * area (f64), maxd (f64) and dph (u8) of count entries. Returns the first pixel whose label is
+ * outside 1..count, or -1.
+ */
+export function domainTotals(labels: usize, ph: usize, dist: usize, n: i32, count: i32, area: usize, maxd: usize, dph: usize): i32 {
+  memory.fill(area, 0, <usize>count << 3);
+  memory.fill(maxd, 0, <usize>count << 3);
+  memory.fill(dph, 0, <usize>count);
+  let i = 0;
+  while (i < n) {
+    const l = load<i32>(labels + (<usize>i << 2)), d = l - 1;
+    if (d < 0 || d >= count) return i;
+    const pm = maxd + (<usize>d << 3);
+    let m = load<f64>(pm), j = i;
+    do {
+      const v = <f64>load<f32>(dist + (<usize>j << 2));
+      if (v > m) m = v;
+      j++;
+    } while (j < n && load<i32>(labels + (<usize>j << 2)) == l);
+    const pa = area + (<usize>d << 3);
+    store<f64>(pa, load<f64>(pa) + <f64>(j - i));
+    store<f64>(pm, m);
+    store<u8>(dph + <usize>d, load<u8>(ph + <usize>(j - 1)) != 0 ? 1 : 0);
+    i = j;
+  }
+  return -1;
+}

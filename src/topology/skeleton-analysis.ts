@@ -136,7 +136,7 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   );
   // Area, phase and largest distance of every domain, in one pass over the labels.
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
-  const bad = domainTotals(labels, phase, distance, count, area, maxD, domainPhase);
+  const bad = ws.domainTotals(labels, count, area, maxD, domainPhase);
   if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   const out = {
@@ -154,31 +154,4 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
     set: (v: Uint8Array) => { pruned = v; },
   });
   return out;
-}
-
-/** Per-domain pixel count, phase and largest distance; returns the first pixel with a label outside 1..count (-1 if none). */
-function domainTotals(
-  labels: Int32Array, phase: Uint8Array, distance: Float32Array, count: number,
-  area: Float64Array, maxD: Float64Array, domainPhase: Uint8Array,
-): number {
-  const n = labels.length;
-  const pixels = new Int32Array(count);
-  // Run by run of one label: one update per run (the last pixel's phase wins, as per pixel).
-  let i = 0;
-  while (i < n) {
-    const l = labels[i]!, d = l - 1;
-    if (d < 0 || d >= count) return i;
-    let m = maxD[d]!, j = i;
-    do {
-      const v = distance[j]!;
-      if (v > m) m = v;
-      j++;
-    } while (j < n && labels[j] === l);
-    pixels[d]! += j - i;
-    maxD[d] = m;
-    domainPhase[d] = phase[j - 1]! ? 1 : 0;
-    i = j;
-  }
-  for (let d = 0; d < count; d++) area[d] = pixels[d]!;
-  return -1;
 }

@@ -70,6 +70,7 @@ export interface SkeletonGraphKernelExports {
     neighbours: number, degrees: number, list: number, count: number, distance: number, index: number,
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
   ): void;
+  domainTotals(labels: number, phase: number, distance: number, n: number, count: number, area: number, maxDistance: number, domainPhase: number): number;
 }
 
 // Hexagonal frames (assembly/hex-label.ts, assembly/hex-thin.ts).

@@ -1,7 +1,7 @@
 // The TS side of the skeleton kernels: a workspace sized for one frame shape that thins both
 // phases and computes the other-phase distance (local half-width) of every pixel.
 import { kernels } from "./instance";
-import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32 } from "./heap";
+import { wasmAlloc, wasmFree, viewU8, viewI32, viewF32, viewF64 } from "./heap";
 import type { KernelExports, SkeletonKernelExports, SkeletonGraphKernelExports } from "./exports";
 
 /** Which phase is 8-connected: 0 up (down 4), 1 down (up 4), 2 saddle decisions per quad. */
@@ -55,6 +55,7 @@ export class SkeletonWorkspace {
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
   private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number } | undefined;
   private lastGeometry: ThinGeometry | undefined;
+  private totals: { ptr: number; capacity: number } | undefined;
 
   constructor(width: number, height: number) {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
@@ -144,10 +145,36 @@ export class SkeletonWorkspace {
     return { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
   }
 
+  /**
+   * Pixel count, phase and largest distance to the other phase of every domain of `labels`
+   * (ids 1..count, the frame of the last `run`), into the given arrays. Returns the first pixel
+   * whose label is outside 1..count, or -1.
+   */
+  domainTotals(labels: Int32Array, count: number, area: Float64Array, maxDistance: Float64Array, domainPhase: Uint8Array): number {
+    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
+    const n = this.width * this.height;
+    if (labels.length !== n) throw new RangeError(`domtopo: labels have ${labels.length} pixels, expected ${n}`);
+    if (!this.totals || this.totals.capacity < count) {
+      if (this.totals) wasmFree(this.totals.ptr);
+      const capacity = Math.max(64, 2 * count);
+      this.totals = { ptr: wasmAlloc(17 * capacity + 16), capacity };
+    }
+    const k = kernels() as K & SkeletonGraphKernelExports;
+    // The candidate list is free after a run: it takes the labels.
+    viewI32(this.cand, n).set(labels);
+    const t = this.totals, cap = t.capacity;
+    const bad = k.domainTotals(this.cand, this.ph, this.dist, n, count, t.ptr, t.ptr + 8 * cap, t.ptr + 16 * cap);
+    area.set(viewF64(t.ptr, count));
+    maxDistance.set(viewF64(t.ptr + 8 * cap, count));
+    domainPhase.set(viewU8(t.ptr + 16 * cap, count));
+    return bad;
+  }
+
   /** Returns the workspace's memory to the heap. */
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
+    if (this.totals) wasmFree(this.totals.ptr);
     if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
     if (this.compactBuffers) for (const p of Object.values(this.compactBuffers)) wasmFree(p);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts, this.bits]) wasmFree(p);
