@@ -14,6 +14,10 @@ export class OverlapCounter {
   private value = new Int32Array(0);
   private mask = -1;
   private used = 0;
+  // Per previous label: the current label and table slot of its last pair (runs of one domain
+  // meet the same partner row after row), -1 when unknown or after the table moved.
+  private memoCur = new Int32Array(0);
+  private memoSlot = new Int32Array(0);
   /** The pairs found by the last `count`: previous label, current label, shared pixels. */
   pairPrev = new Int32Array(64);
   pairCur = new Int32Array(64);
@@ -31,6 +35,11 @@ export class OverlapCounter {
     prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
   ): number {
     this.reset(sizeHint);
+    if (this.memoCur.length < prevCount + 1) {
+      this.memoCur = new Int32Array(prevCount + 1);
+      this.memoSlot = new Int32Array(prevCount + 1);
+    }
+    this.memoCur.fill(-1, 0, prevCount + 1);
     const n = cur.length;
     let runPrev = 0, runCur = 0, run = 0;
     for (let i = 0; i < n; i++) {
@@ -40,7 +49,7 @@ export class OverlapCounter {
         continue;
       }
       if (run > 0 && runPrev > 0 && runCur > 0 && prevPhase[runPrev] === curPhase[runCur]) {
-        this.add(runPrev, runCur, run);
+        this.addRun(runPrev, runCur, run);
       }
       if (b !== runCur && (b < 0 || b > curCount)) {
         throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${b} at pixel ${i}`);
@@ -50,7 +59,7 @@ export class OverlapCounter {
       run = 1;
     }
     if (run > 0 && runPrev > 0 && runCur > 0 && prevPhase[runPrev] === curPhase[runCur]) {
-      this.add(runPrev, runCur, run);
+      this.addRun(runPrev, runCur, run);
     }
     this.collect();
     return this.pairs;
@@ -83,7 +92,20 @@ export class OverlapCounter {
     return h & this.mask;
   }
 
-  private add(a: number, b: number, n: number): void {
+  private addRun(a: number, b: number, n: number): void {
+    if (a < this.memoCur.length && this.memoCur[a] === b) {
+      this.value[this.memoSlot[a]!]! += n;
+      return;
+    }
+    const s = this.add(a, b, n);
+    if (a >= this.memoCur.length) return;
+    if (s < 0) { this.memoCur.fill(-1); return; }
+    this.memoCur[a] = b;
+    this.memoSlot[a] = s;
+  }
+
+  /** Adds n to the pair (a, b); returns its slot, or -1 when the table grew (slots moved). */
+  private add(a: number, b: number, n: number): number {
     const kp = this.keyPrev, kc = this.keyCur, mask = this.mask;
     let s = this.slot(a, b);
     for (;;) {
@@ -92,12 +114,12 @@ export class OverlapCounter {
         kp[s] = a;
         kc[s] = b;
         this.value[s] = n;
-        if (++this.used * 2 > kp.length) this.grow();
-        return;
+        if (++this.used * 2 > kp.length) { this.grow(); return -1; }
+        return s;
       }
       if (k === a && kc[s] === b) {
         this.value[s]! += n;
-        return;
+        return s;
       }
       s = (s + 1) & mask;
     }
