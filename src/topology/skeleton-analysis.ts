@@ -111,7 +111,11 @@ export function skeletonWorkspace(width: number, height: number): SkeletonWorksp
  * Thins both phases, builds and prunes every domain's skeleton graph, and classifies each domain
  * as bubble, stripe or labyrinth. `frame.labels` must come from the same boundary and connectivity.
  */
-export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions = {}, workspace?: SkeletonWorkspace): SkeletonAnalysis {
+export function analyzeSkeletons(
+  frame: LabeledFrame, options: SkeletonOptions = {}, workspace?: SkeletonWorkspace,
+  /** Buffers of the frame's size to copy the skeleton and distance map into (the caller owns them; else new arrays). */
+  into?: { skeleton: Uint8Array; distance: Float32Array },
+): SkeletonAnalysis {
   const o = resolveSkeletonOptions(options);
   const { width, height, count } = frame;
   // Views into Wasm memory (FrameAnalyzer.phase() / labels()) would be detached if the skeleton
@@ -128,7 +132,10 @@ export function analyzeSkeletons(frame: LabeledFrame, options: SkeletonOptions =
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
-  const skeleton = r.skeleton.slice(), distance = r.distance.slice();
+  const n0 = width * height;
+  const reuse = into && into.skeleton.length === n0 && into.distance.length === n0;
+  const skeleton = reuse ? into.skeleton : r.skeleton.slice(), distance = reuse ? into.distance : r.distance.slice();
+  if (reuse) { skeleton.set(r.skeleton); distance.set(r.distance); }
   const compactAdjacency = ws.compactNeighbours();
   const graph = skeletonGraph(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
