@@ -9,5 +9,6 @@ export * from "./edt";
 export * from "./skeleton-graph";
 export * from "./fft";
 export * from "./spectrum";
+export * from "./overlap";
 export * from "./hex-label";
 export * from "./hex-thin";

@@ -4,9 +4,18 @@
 // a domain that stays put) are summed before they touch the table, so the table sees one update
 // per run. The table is open addressing with linear probing over two Int32Array key columns
 // (the pair itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
-// Browser-safe: no node:* imports.
+// The runs come from a Wasm kernel (four pixels a step while nothing changes) on copies of the
+// label images kept in Wasm memory; the previous frame's copy is reused when it is the array the
+// last count had as current. Browser-safe: no node:* imports.
+import { kernels } from "../wasm/instance";
+import { wasmAlloc, wasmFree, viewI32 } from "../wasm/heap";
+import type { KernelExports, OverlapKernelExports } from "../wasm/exports";
 
 const EMPTY = 0; // previous labels are >= 1 in every stored key
+
+function memoryBuffer(): ArrayBufferLike | undefined {
+  try { return kernels().memory.buffer; } catch { return undefined; }
+}
 
 export class OverlapCounter {
   private keyPrev = new Int32Array(0);
@@ -18,6 +27,9 @@ export class OverlapCounter {
   // meet the same partner row after row), -1 when unknown or after the table moved.
   private memoCur = new Int32Array(0);
   private memoSlot = new Int32Array(0);
+  // Wasm copies of the two label images and the run columns, for frames of `wasmN` pixels.
+  private wasm: { n: number; prev: number; cur: number; a: number; b: number; len: number } | undefined;
+  private lastCur: Int32Array | undefined;
   /** The pairs found by the last `count`: previous label, current label, shared pixels. */
   pairPrev = new Int32Array(64);
   pairCur = new Int32Array(64);
@@ -41,6 +53,31 @@ export class OverlapCounter {
     }
     this.memoCur.fill(-1, 0, prevCount + 1);
     const n = cur.length;
+    if (prev.length !== n) throw new Error(`${where}: the label images have ${prev.length} and ${n} pixels`);
+    // Label images that are views into Wasm memory take the loop in TS: the kernel's buffers
+    // could grow the memory and detach them (and the caller's other views).
+    const mem = memoryBuffer();
+    const w = mem && prev.buffer !== mem && cur.buffer !== mem ? this.wasmBuffers(n) : undefined;
+    if (w) {
+      const k = kernels() as KernelExports & OverlapKernelExports;
+      if (this.lastCur === prev && this.lastCur.length === n) [w.prev, w.cur] = [w.cur, w.prev];
+      else viewI32(w.prev, n).set(prev);
+      viewI32(w.cur, n).set(cur);
+      this.lastCur = cur;
+      const runs = k.overlapRuns(w.prev, w.cur, n, curCount, w.a, w.b, w.len);
+      if (runs < 0) {
+        const i = -runs - 1;
+        this.lastCur = undefined;
+        throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
+      }
+      const A = viewI32(w.a, runs), B = viewI32(w.b, runs), L = viewI32(w.len, runs);
+      for (let t = 0; t < runs; t++) {
+        const a = A[t]!, b = B[t]!;
+        if (a > 0 && b > 0 && prevPhase[a] === curPhase[b]) this.addRun(a, b, L[t]!);
+      }
+      this.collect();
+      return this.pairs;
+    }
     let runPrev = 0, runCur = 0, run = 0;
     for (let i = 0; i < n; i++) {
       const a = prev[i]!, b = cur[i]!;
@@ -63,6 +100,23 @@ export class OverlapCounter {
     }
     this.collect();
     return this.pairs;
+  }
+
+  /** Wasm buffers for frames of n pixels (the kernels are loaded: memoryBuffer() answered). */
+  private wasmBuffers(n: number) {
+    if (this.wasm?.n === n) return this.wasm;
+    this.releaseWasm();
+    this.lastCur = undefined;
+    this.wasm = { n, prev: wasmAlloc(4 * n + 16), cur: wasmAlloc(4 * n + 16), a: wasmAlloc(4 * n), b: wasmAlloc(4 * n), len: wasmAlloc(4 * n) };
+    return this.wasm;
+  }
+
+  /** Returns the Wasm buffers (a later count allocates them again). */
+  releaseWasm(): void {
+    if (!this.wasm) return;
+    for (const p of [this.wasm.prev, this.wasm.cur, this.wasm.a, this.wasm.b, this.wasm.len]) wasmFree(p);
+    this.wasm = undefined;
+    this.lastCur = undefined;
   }
 
   /** Slots in the table (a power of two, at least twice the pairs of the last count). */

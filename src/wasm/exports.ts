@@ -83,3 +83,8 @@ export interface HexKernelExports {
   hexSkeletonDistance(skeleton: number, distance: number, offsets: number, lengths: number, count: number, cap: number): void;
   hexSkeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
 }
+
+// Runs of label pairs between two frames (assembly/overlap.ts).
+export interface OverlapKernelExports {
+  overlapRuns(prev: number, cur: number, n: number, maxCur: number, outA: number, outB: number, outN: number): number;
+}

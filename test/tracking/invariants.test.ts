@@ -1,6 +1,7 @@
 import { describe, it, expect } from "vitest";
 import { gaussianRandomField } from "../../src/demo/grf";
 import type { Boundary } from "../../src/topology/options";
+import { wasmAlloc, wasmFree, viewI32 } from "../../src/wasm/heap";
 import { OverlapCounter } from "../../src/sequence/tracking-overlap";
 import { trackMovie, type Canvas, type Movie } from "./movie";
 import { shift, randomFrame } from "../helpers/grid";
@@ -139,6 +140,42 @@ describe("overlap counting", () => {
         expect(counter.capacity()).toBeGreaterThanOrEqual(2 * n);
       }
     }
+  });
+
+  it("counts the same pairs with the Wasm run kernel as with the loop in TS, frame after frame", () => {
+    // Arrays of the caller's own take the kernel; the same labels as views into Wasm memory take
+    // the TS loop (the kernel's buffers could detach them). Three frames in a row, so the second
+    // count reuses the previous frame's copy in Wasm memory.
+    const frames = [21, 22, 23].map((seed) => randomFrame(seed, 97, 61, 0.5));
+    const m = trackMovie(frames);
+    const labels = m.labels as Int32Array[];
+    const phases = labels.map((l, k) => {
+      const p = new Uint8Array(Math.max(...l) + 1).fill(255);
+      for (let i = 0; i < l.length; i++) p[l[i]!] = frames[k]!.data[i]!;
+      return p;
+    });
+    const kernel = new OverlapCounter(), loop = new OverlapCounter();
+    const ptr = wasmAlloc(8 * labels[0]!.length);
+    try {
+      for (let k = 0; k + 1 < labels.length; k++) {
+        const [a, b] = [labels[k]!, labels[k + 1]!];
+        const na = kernel.count(a, b, phases[k]!, phases[k + 1]!, phases[k]!.length - 1, phases[k + 1]!.length - 1, "test");
+        const va = viewI32(ptr, a.length), vb = viewI32(ptr + 4 * a.length, b.length);
+        va.set(a); vb.set(b);
+        const nb = loop.count(va, vb, phases[k]!, phases[k + 1]!, phases[k]!.length - 1, phases[k + 1]!.length - 1, "test");
+        expect(na).toBe(nb);
+        const pairs = (c: OverlapCounter, n: number) => Array.from({ length: n }, (_, e) => `${c.pairPrev[e]},${c.pairCur[e]}:${c.pairPixels[e]}`).sort();
+        expect(pairs(kernel, na)).toEqual(pairs(loop, nb));
+        expect(na).toBeGreaterThan(100);
+      }
+    } finally {
+      wasmFree(ptr);
+    }
+    // A label beyond the count is named with its pixel, on both paths.
+    const bad = labels[1]!.slice();
+    bad[1234] = 99999;
+    expect(() => kernel.count(labels[0]!, bad, phases[0]!, phases[1]!, phases[0]!.length - 1, phases[1]!.length - 1, "frame 7"))
+      .toThrow("frame 7: expected labels in 0.." + (phases[1]!.length - 1) + " (the domains' count), got 99999 at pixel 1234");
   });
 
   it("counts nothing between pixels that changed phase", () => {
