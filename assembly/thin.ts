@@ -172,10 +172,9 @@ function gatherEdge(v: i32, i: i32): i32 {
   return c;
 }
 
-/** SK of every pixel at the start: in the skeleton, its phase (bit 3 down, bit 4 up), EDGE on the frame's rim. */
-function initSkeleton(): void {
-  const w = W, h = H, n = w * h;
-  for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+/** Sets EDGE on the pixels of the first and last row and column. */
+function markRimEdge(): void {
+  const w = W, h = H;
   for (let x = 0; x < w; x++) {
     store<u8>(SK + <usize>x, load<u8>(SK + <usize>x) | EDGE);
     const j = (h - 1) * w + x;
@@ -186,6 +185,13 @@ function initSkeleton(): void {
     store<u8>(SK + <usize>a, load<u8>(SK + <usize>a) | EDGE);
     store<u8>(SK + <usize>b, load<u8>(SK + <usize>b) | EDGE);
   }
+}
+
+/** SK of every pixel at the start: in the skeleton, its phase (bit 3 down, bit 4 up), EDGE on the frame's rim. */
+function initSkeleton(): void {
+  const w = W, h = H, n = w * h;
+  for (let i = 0; i < n; i++) store<u8>(SK + <usize>i, <u8>(1 | (<i32>load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
+  markRimEdge();
 }
 
 // SK bit 6 marks the pixels of either phase with a 4-neighbour of the other phase or outside an
@@ -733,16 +739,7 @@ function setFlags(): void {
     v128.store(SK + <usize>i, v128.or(v128.and(s, i8x16.splat(~(8 | 16))), i8x16.add(eight, i8x16.shl(p, 3))));
   }
   for (; i < n; i++) store<u8>(SK + <usize>i, <u8>((<i32>load<u8>(SK + <usize>i) & ~24) | (load<u8>(PH + <usize>i) != 0 ? 16 : 8)));
-  for (let x = 0; x < w; x++) {
-    store<u8>(SK + <usize>x, load<u8>(SK + <usize>x) | EDGE);
-    const j = (h - 1) * w + x;
-    store<u8>(SK + <usize>j, load<u8>(SK + <usize>j) | EDGE);
-  }
-  for (let y = 0; y < h; y++) {
-    const a = y * w, b = a + w - 1;
-    store<u8>(SK + <usize>a, load<u8>(SK + <usize>a) | EDGE);
-    store<u8>(SK + <usize>b, load<u8>(SK + <usize>b) | EDGE);
-  }
+  markRimEdge();
   flagsReady = true;
 }
 

@@ -87,26 +87,7 @@ export function gaussianRandomField(options: RandomFieldOptions): RandomField {
     }
   }
   // Inverse FFT along rows, then along columns.
-  const rowFft = new FFT(width), colFft = new FFT(height);
-  const rowIn = rowFft.createComplexArray() as number[], rowOut = rowFft.createComplexArray() as number[];
-  for (let y = 0; y < height; y++) {
-    const o = 2 * y * width;
-    for (let i = 0; i < 2 * width; i++) rowIn[i] = grid[o + i]!;
-    rowFft.inverseTransform(rowOut, rowIn);
-    for (let i = 0; i < 2 * width; i++) grid[o + i] = rowOut[i]!;
-  }
-  const colIn = colFft.createComplexArray() as number[], colOut = colFft.createComplexArray() as number[];
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) {
-      colIn[2 * y] = grid[2 * (y * width + x)]!;
-      colIn[2 * y + 1] = grid[2 * (y * width + x) + 1]!;
-    }
-    colFft.inverseTransform(colOut, colIn);
-    for (let y = 0; y < height; y++) {
-      grid[2 * (y * width + x)] = colOut[2 * y]!;
-      grid[2 * (y * width + x) + 1] = colOut[2 * y + 1]!;
-    }
-  }
+  inverseFft2(grid, width, height);
   // Keep the real part, normalized to zero mean and unit variance; the derivative variances
   // are then measured spectrally on the result (exact for a trigonometric polynomial).
   let variance = 0;
@@ -213,26 +194,7 @@ export function hexGaussianRandomField(options: RandomFieldOptions): HexRandomFi
       grid[j + 1] = amp * normal();
     }
   }
-  const rowFft = new FFT(gw), colFft = new FFT(gh);
-  const rowIn = rowFft.createComplexArray() as number[], rowOut = rowFft.createComplexArray() as number[];
-  for (let y = 0; y < gh; y++) {
-    const o = 2 * y * gw;
-    for (let i = 0; i < 2 * gw; i++) rowIn[i] = grid[o + i]!;
-    rowFft.inverseTransform(rowOut, rowIn);
-    for (let i = 0; i < 2 * gw; i++) grid[o + i] = rowOut[i]!;
-  }
-  const colIn = colFft.createComplexArray() as number[], colOut = colFft.createComplexArray() as number[];
-  for (let x = 0; x < gw; x++) {
-    for (let y = 0; y < gh; y++) {
-      colIn[2 * y] = grid[2 * (y * gw + x)]!;
-      colIn[2 * y + 1] = grid[2 * (y * gw + x) + 1]!;
-    }
-    colFft.inverseTransform(colOut, colIn);
-    for (let y = 0; y < gh; y++) {
-      grid[2 * (y * gw + x)] = colOut[2 * y]!;
-      grid[2 * (y * gw + x) + 1] = colOut[2 * y + 1]!;
-    }
-  }
+  inverseFft2(grid, gw, gh);
   // Mean and variance over the full rectangular grid are those of the continuous field (it
   // samples the trigonometric polynomial completely); normalize by them, then pick the sites.
   const gn = gw * gh;
@@ -250,4 +212,28 @@ export function hexGaussianRandomField(options: RandomFieldOptions): HexRandomFi
   for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) data[y * width + x] = real[y * gw + 2 * x + (y & 1)]!;
   // Per grid step -> per lattice constant: x steps are 1/2, y steps sqrt(3)/2.
   return { width, height, data, lambda2x: dx2 * 4, lambda2y: dy2 / (row * row), grid: "hex" };
+}
+
+/** In-place inverse 2-D FFT of interleaved complex samples (width x height, row-major): rows, then columns (fft.js). */
+function inverseFft2(grid: Float64Array, width: number, height: number): void {
+  const rowFft = new FFT(width), colFft = new FFT(height);
+  const rowIn = rowFft.createComplexArray() as number[], rowOut = rowFft.createComplexArray() as number[];
+  for (let y = 0; y < height; y++) {
+    const o = 2 * y * width;
+    for (let i = 0; i < 2 * width; i++) rowIn[i] = grid[o + i]!;
+    rowFft.inverseTransform(rowOut, rowIn);
+    for (let i = 0; i < 2 * width; i++) grid[o + i] = rowOut[i]!;
+  }
+  const colIn = colFft.createComplexArray() as number[], colOut = colFft.createComplexArray() as number[];
+  for (let x = 0; x < width; x++) {
+    for (let y = 0; y < height; y++) {
+      colIn[2 * y] = grid[2 * (y * width + x)]!;
+      colIn[2 * y + 1] = grid[2 * (y * width + x) + 1]!;
+    }
+    colFft.inverseTransform(colOut, colIn);
+    for (let y = 0; y < height; y++) {
+      grid[2 * (y * width + x)] = colOut[2 * y]!;
+      grid[2 * (y * width + x) + 1] = colOut[2 * y + 1]!;
+    }
+  }
 }
