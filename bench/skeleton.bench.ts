@@ -1,6 +1,6 @@
 // Thinning + skeleton graph + classification of both phases of generated mazes: this tree
 // ("after") against an earlier revision ("before", the same sources at git revision
-// SKELETON_BEFORE, default 3b0aa7f, built once into the temp folder outside the timed part) and
+// SKELETON_BEFORE, default dc1b092, the list-based thinning and the graph in TS, built once into the temp folder outside the timed part) and
 // a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
 // Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the thinning
 // alone (that run minus the distance map of the same round), the skeleton graph (from a thinned
@@ -26,7 +26,7 @@ const quick = process.argv.includes("--quick");
 const roundsArg = process.argv.indexOf("--rounds");
 const rounds = roundsArg > 0 ? Number(process.argv[roundsArg + 1]) : quick ? 7 : 21;
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
-const beforeRev = process.env.SKELETON_BEFORE ?? "3b0aa7f";
+const beforeRev = process.env.SKELETON_BEFORE ?? "dc1b092";
 
 /** The sources of `rev` with their kernels built, in a temp folder (made once per revision). */
 function beforeTree(rev: string): string {
