@@ -50,11 +50,11 @@ export interface SkeletonAnalysis {
   columns: SkeletonColumns;
   up: PhaseSkeletonSummary;
   down: PhaseSkeletonSummary;
-  /** 1 on the skeleton of each pixel's phase, as thinned (copy). */
+  /** 1 on the skeleton of each pixel's phase, as thinned (a copy: the caller's `into` buffer when given). */
   skeleton: Uint8Array;
   /** 1 on the skeleton pixels that survive spur pruning (made on first read). */
   pruned: Uint8Array;
-  /** Distance to the other phase, px (copy). */
+  /** Distance to the other phase, px (a copy, as `skeleton`). */
   distance: Float32Array;
   graph: SkeletonGraph;
 }
@@ -132,8 +132,7 @@ export function analyzeSkeletons(
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
-  const n0 = width * height;
-  const reuse = into && into.skeleton.length === n0 && into.distance.length === n0;
+  const reuse = into && into.skeleton.length === n && into.distance.length === n;
   const skeleton = reuse ? into.skeleton : r.skeleton.slice(), distance = reuse ? into.distance : r.distance.slice();
   if (reuse) { skeleton.set(r.skeleton); distance.set(r.distance); }
   const compactAdjacency = ws.compactNeighbours();
@@ -141,7 +140,7 @@ export function analyzeSkeletons(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
-  // Area, phase and largest distance of every domain, in one pass over the labels.
+  // Area, phase and largest distance of every domain, run by run of one label (Wasm).
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
   const bad = ws.domainTotals(labels, count, area, maxD, domainPhase);
   if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
