@@ -599,8 +599,6 @@ function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32)
   if (WY) copyRow3(ROW0, plane);
   let prevChanged = false;
   const ones = i64x2.splat(-1), zero = i64x2.splat(0);
-  const mN = mode == 0 ? ones : zero, mS = mode == 1 ? ones : zero;
-  const mE = mode == 2 ? ones : zero, mW = mode == 3 ? ones : zero;
   const sub = mode < 4 ? ones : i64x2.splat(sx != 0 ? <i64>0xaaaaaaaaaaaaaaaa : <i64>0x5555555555555555);
   const since = mode < 4 ? lastd(mode) : -1;
   let any = false;
@@ -617,6 +615,9 @@ function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32)
     const u = y > 0 ? (prevChanged ? PREV : c - rs) : (WY ? plane + <usize>(h - 1) * rs : ZSLOT);
     const d = y + 1 < h ? c + rs : (WY ? ROW0 : ZSLOT);
     const ue = u + rb, uw = u + 2 * rb, ce = c + rb, cw = c + 2 * rb, de = d + rb, dw = d + 2 * rb;
+    // The neighbour on the pass's side (N: the row above, S: below, E / W: the row's shifts);
+    // a subfield pass has no side (the zero row).
+    const side = mode == 0 ? u : mode == 1 ? d : mode == 2 ? ce : mode == 3 ? cw : ZSLOT;
     let acc = zero;
     for (let k = 0; k < wp; k += 2) {
       const off = <usize>k << 3;
@@ -651,8 +652,7 @@ function bitPass(plane: usize, eight: bool, mode: i32, t: i32, sx: i32, sy: i32)
         const multi = v128.or(v128.or(v128.and(t0, t2), v128.and(t4, t6)), v128.and(a, b));
         const simple = v128.andnot(v128.or(a, b), multi);
         const end = v128.andnot(one, two);
-        const inside = v128.or(v128.or(v128.and(x2, mN), v128.and(x6, mS)), v128.or(v128.and(x0, mE), v128.and(x4, mW)));
-        dk = v128.andnot(v128.and(v128.and(cc, sub), v128.andnot(simple, end)), inside);
+        dk = v128.andnot(v128.and(v128.and(cc, sub), v128.andnot(simple, end)), v128.load(side + off));
       }
       v128.store(DBUF + off, dk);
       acc = v128.or(acc, dk);
