@@ -260,9 +260,12 @@ export function skeletonNeighboursCompact(
     sti(list, count, i);
     count++;
   }
+  // The list is in raster order: the row advances with it (no division per pixel).
+  let y = 0, rowStart = 0;
   for (let t = 0; t < count; t++) {
     const i = ldi(list, t);
-    const y = i / w, x = i - y * w;
+    while (i >= rowStart + w) { rowStart += w; y++; }
+    const x = i - rowStart;
     const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
     const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
     const row = y * w, rm = ym * w, rp = yp * w;
