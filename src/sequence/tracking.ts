@@ -203,7 +203,7 @@ class TrackColumns {
   }
 
   private grow(): void {
-    const n = this.phase.length * 2;
+    const n = Math.max(64, this.phase.length * 2);
     for (const key of ["phase", "bornBy", "endedBy", "lifetime", "birthFrame", "birthField", "endFrame",
       "endField", "goneFrame", "goneField", "maxArea"] as const) {
       const old = this[key];
@@ -310,7 +310,8 @@ export class DomainTracker {
       ["prevArea", this.prevArea], ["prevX", this.prevX], ["prevY", this.prevY],
     ];
     const t = this.tracks;
-    for (const key of TRACK_KEYS) arrays.push([`tracks.${key}`, t[key]]);
+    // The tracks' columns up to the last track (not the room grown for more).
+    for (const key of TRACK_KEYS) arrays.push([`tracks.${key}`, t[key].subarray(0, t.count)]);
     const head = {
       width: this.width, height: this.height, options: this.options, frames: this.frames,
       lastFrame: Number.isNaN(this.lastFrame) ? null : this.lastFrame, prevCount: this.prevCount, trackCount: t.count,
