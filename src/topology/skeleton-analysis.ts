@@ -96,6 +96,21 @@ function bad(name: string, v: unknown): never {
   throw new Error(`options.${name}: expected 'directional' or 'distance', got ${String(v)}`);
 }
 
+/**
+ * The frame's phase map and labels, copied where they are views into Wasm memory (the skeleton
+ * workspaces may grow it, which would detach them), after checking their length.
+ */
+export function frameMaps(frame: LabeledFrame, cells: "pixels" | "sites"): { phase: Uint8Array; labels: Int32Array; n: number } {
+  const mem = kernels().memory.buffer;
+  const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
+  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
+  const n = frame.width * frame.height;
+  if (phase.length !== n || labels.length !== n) {
+    throw new Error(`frame: expected phase and labels of ${frame.width} x ${frame.height} = ${n} ${cells}, got ${phase.length} and ${labels.length}`);
+  }
+  return { phase, labels, n };
+}
+
 let shared: SkeletonWorkspace | undefined;
 
 /** Skeleton workspace for frames of one shape (reused by `analyzeSkeletons` between equal shapes). */
@@ -118,15 +133,7 @@ export function analyzeSkeletons(
 ): SkeletonAnalysis {
   const o = resolveSkeletonOptions(options);
   const { width, height, count } = frame;
-  // Views into Wasm memory (FrameAnalyzer.phase() / labels()) would be detached if the skeleton
-  // workspace grows memory: copy them first.
-  const mem = kernels().memory.buffer;
-  const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
-  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
-  const n = width * height;
-  if (phase.length !== n || labels.length !== n) {
-    throw new Error(`frame: expected phase and labels of ${width} x ${height} = ${n} pixels, got ${phase.length} and ${labels.length}`);
-  }
+  const { phase, labels, n } = frameMaps(frame, "pixels");
   const rule: ConnectivityRule = o.connectivity === 8 ? 0 : o.connectivity === 4 ? 1 : 2;
   const periodicX = o.boundary === "periodic" || o.boundary === "periodic-x";
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";

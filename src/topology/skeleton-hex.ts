@@ -4,10 +4,9 @@
 // in `pixelSize` units (pixelSize = lattice constant) outside; areas in lattice constants squared
 // (sites x sqrt(3)/2), so bubble diameters and densities mean what they mean on a square frame.
 import type { HexWorkspace } from "../wasm/hex";
-import { kernels } from "../wasm/instance";
 import { skeletonGraph, prunedSkeleton } from "./skeleton";
 import { classifyDomains, summarizePhase } from "./classify";
-import { resolveSkeletonOptions, type LabeledFrame, type SkeletonAnalysis, type SkeletonOptions } from "./skeleton-analysis";
+import { resolveSkeletonOptions, frameMaps, type LabeledFrame, type SkeletonAnalysis, type SkeletonOptions } from "./skeleton-analysis";
 import { HEX_ROW, HEX_SITE_AREA } from "./hex";
 
 /** Unit vectors of the graph direction codes of a hexagonal skeleton (rows run down). */
@@ -37,13 +36,7 @@ export const HEX_DISTANCE_CAP = 128;
 export function analyzeHexSkeletons(ws: HexWorkspace, frame: LabeledFrame, options: SkeletonOptions = {}): SkeletonAnalysis {
   const o = resolveSkeletonOptions(options);
   const { width, height, count } = frame;
-  const mem = kernels().memory.buffer;
-  const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
-  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
-  const n = width * height;
-  if (phase.length !== n || labels.length !== n) {
-    throw new Error(`frame: expected phase and labels of ${width} x ${height} = ${n} sites, got ${phase.length} and ${labels.length}`);
-  }
+  const { phase, labels, n } = frameMaps(frame, "sites");
   const periodicX = o.boundary === "periodic" || o.boundary === "periodic-x";
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
   const cap = Math.min(HEX_DISTANCE_CAP, Math.ceil(Math.hypot(width, height * HEX_ROW)) + 1);
