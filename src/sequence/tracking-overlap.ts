@@ -5,8 +5,7 @@
 // per run. The table is open addressing with linear probing over two Int32Array key columns
 // (the pair itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
 // The runs come from a Wasm kernel (four pixels a step while nothing changes) on copies of the
-// label images kept in Wasm memory; the previous frame's copy is reused when it is the array the
-// last count had as current. Browser-safe: no node:* imports.
+// label images in buffers kept for the frame size. Browser-safe: no node:* imports.
 import { kernels } from "../wasm/instance";
 import { wasmAlloc, wasmFree, viewI32 } from "../wasm/heap";
 import type { KernelExports, OverlapKernelExports } from "../wasm/exports";
@@ -29,7 +28,6 @@ export class OverlapCounter {
   private memoSlot = new Int32Array(0);
   // Wasm copies of the two label images and the run columns, for frames of `wasmN` pixels.
   private wasm: { n: number; prev: number; cur: number; a: number; b: number; len: number } | undefined;
-  private lastCur: Int32Array | undefined;
   /** The pairs found by the last `count`: previous label, current label, shared pixels. */
   pairPrev = new Int32Array(64);
   pairCur = new Int32Array(64);
@@ -60,14 +58,11 @@ export class OverlapCounter {
     const w = mem && prev.buffer !== mem && cur.buffer !== mem ? this.wasmBuffers(n) : undefined;
     if (w) {
       const k = kernels() as KernelExports & OverlapKernelExports;
-      if (this.lastCur === prev && this.lastCur.length === n) [w.prev, w.cur] = [w.cur, w.prev];
-      else viewI32(w.prev, n).set(prev);
+      viewI32(w.prev, n).set(prev);
       viewI32(w.cur, n).set(cur);
-      this.lastCur = cur;
       const runs = k.overlapRuns(w.prev, w.cur, n, curCount, w.a, w.b, w.len);
       if (runs < 0) {
         const i = -runs - 1;
-        this.lastCur = undefined;
         throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
       }
       const A = viewI32(w.a, runs), B = viewI32(w.b, runs), L = viewI32(w.len, runs);
@@ -105,18 +100,9 @@ export class OverlapCounter {
   /** Wasm buffers for frames of n pixels (the kernels are loaded: memoryBuffer() answered). */
   private wasmBuffers(n: number) {
     if (this.wasm?.n === n) return this.wasm;
-    this.releaseWasm();
-    this.lastCur = undefined;
+    if (this.wasm) for (const p of [this.wasm.prev, this.wasm.cur, this.wasm.a, this.wasm.b, this.wasm.len]) wasmFree(p);
     this.wasm = { n, prev: wasmAlloc(4 * n + 16), cur: wasmAlloc(4 * n + 16), a: wasmAlloc(4 * n), b: wasmAlloc(4 * n), len: wasmAlloc(4 * n) };
     return this.wasm;
-  }
-
-  /** Returns the Wasm buffers (a later count allocates them again). */
-  releaseWasm(): void {
-    if (!this.wasm) return;
-    for (const p of [this.wasm.prev, this.wasm.cur, this.wasm.a, this.wasm.b, this.wasm.len]) wasmFree(p);
-    this.wasm = undefined;
-    this.lastCur = undefined;
   }
 
   /** Slots in the table (a power of two, at least twice the pairs of the last count). */

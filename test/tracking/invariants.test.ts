@@ -144,8 +144,8 @@ describe("overlap counting", () => {
 
   it("counts the same pairs with the Wasm run kernel as with the loop in TS, frame after frame", () => {
     // Arrays of the caller's own take the kernel; the same labels as views into Wasm memory take
-    // the TS loop (the kernel's buffers could detach them). Three frames in a row, so the second
-    // count reuses the previous frame's copy in Wasm memory.
+    // the TS loop (the kernel's buffers could detach them). Three frames in a row, one counter
+    // for each path.
     const frames = [21, 22, 23].map((seed) => randomFrame(seed, 97, 61, 0.5));
     const m = trackMovie(frames);
     const labels = m.labels as Int32Array[];
