@@ -84,9 +84,11 @@ async function handle(job: FrameJob): Promise<{ reply: FrameReply; transfer: Arr
   return { reply, transfer };
 }
 
+// The pool may post the next job before this one is answered: jobs run one after another.
+let last: Promise<unknown> = Promise.resolve();
 self.onmessage = (event: MessageEvent<{ id: number; job: FrameJob }>) => {
   const { id, job } = event.data;
-  handle(job).then(
+  last = last.then(() => handle(job)).then(
     ({ reply, transfer }) => (self as unknown as Worker).postMessage({ id, ok: true, result: reply }, transfer),
     (error: unknown) => (self as unknown as Worker).postMessage({
       id, ok: false, message: error instanceof Error ? error.message : String(error),

@@ -39,7 +39,10 @@ export interface RunConfig {
   resume?: boolean;
   /** A failed frame stops the run. @default false */
   strict?: boolean;
-  /** Frames between checkpoints. @default 25 */
+  /**
+   * Frames between checkpoints. @default 25, and at least a second apart (a checkpoint syncs
+   * the tables to disk); given, every that many frames.
+   */
   checkpointEvery?: number;
   signal?: AbortSignal;
   onProgress?: (done: number, total: number) => void;
@@ -131,7 +134,9 @@ class PartialFile {
     }
   }
   write(text: string): void {
-    const bytes = Buffer.from(text, "utf8");
+    this.writeBytes(Buffer.from(text, "utf8"));
+  }
+  writeBytes(bytes: Uint8Array): void {
     let done = 0;
     while (done < bytes.length) done += writeSync(this.fd, bytes, done, bytes.length - done, this.position + done);
     this.position += bytes.length;
@@ -239,12 +244,15 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const end = config.stopAfter !== undefined ? Math.min(range.end, startAt + config.stopAfter) : range.end;
   function* jobs(): Generator<FileFrameJob> {
     for (let index = startAt; index < end; index++) {
-      yield { files, index, options: jobOptions, ...(config.backgroundFile ? { backgroundFile: config.backgroundFile } : {}) };
+      // The domain rows come back led by the frame, its source and (with fields) its field.
+      const options = fieldName && jobOptions.domains ? { ...jobOptions, domainLead: [config.fields!.values[index]!] } : jobOptions;
+      yield { files, index, options, ...(config.backgroundFile ? { backgroundFile: config.backgroundFile } : {}) };
     }
   }
   const spawn = workers === 1 ? () => inThreadWorker(handleFileJob) : workerThread;
   const every = config.checkpointEvery ?? 25;
-  let sinceCheckpoint = 0;
+  const minGapMs = config.checkpointEvery === undefined ? 1000 : 0;
+  let sinceCheckpoint = 0, lastCheckpoint = performance.now();
   try {
     for await (const o of runOrdered<FileFrameJob, FrameJobResult>(jobs(), spawn, { workers, signal: config.signal })) {
       const index = o.job.index;
@@ -283,15 +291,15 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         files_["frames.csv"]!.write(csvLine(row.map(([, v]) => v)));
         files_["frames.ndjson"]!.write(JSON.stringify(Object.fromEntries(row.map(([k, v]) =>
           [k, typeof v === "number" && !Number.isFinite(v) ? null : v]))) + "\n");
-        if (files_["domains.csv"] && r.domainCsv) {
-          // Every line of the frame's rows gets the lead cells (domain cells hold no line breaks).
-          const leadText = csvLine(lead.map(([, v]) => v)).slice(0, -1) + ",";
-          files_["domains.csv"].write(r.domainCsv.replace(/^(?=.)/gm, () => leadText));
-        }
+        if (files_["domains.csv"] && r.domainBytes) files_["domains.csv"].writeBytes(r.domainBytes);
       }
       done = index + 1;
       config.onProgress?.(done - range.start, range.end - range.start);
-      if (++sinceCheckpoint >= every) { saveCheckpoint(); sinceCheckpoint = 0; }
+      if (++sinceCheckpoint >= every && performance.now() - lastCheckpoint >= minGapMs) {
+        saveCheckpoint();
+        sinceCheckpoint = 0;
+        lastCheckpoint = performance.now();
+      }
     }
     saveCheckpoint();
   } finally {

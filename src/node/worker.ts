@@ -41,8 +41,11 @@ export async function handleFileJob(job: FileFrameJob) {
 // Only in threads started by the pool (workerData marks them), never in a host's own workers.
 if (parentPort && (workerData as { domtopoWorker?: boolean } | null)?.domtopoWorker) {
   const port = parentPort;
+  // The pool may post the next job before this one is answered: jobs run one after another, in
+  // the order they came.
+  let last: Promise<unknown> = Promise.resolve();
   port.on("message", (message: { id: number; job: FileFrameJob }) => {
-    handleFileJob(message.job).then(
+    last = last.then(() => handleFileJob(message.job)).then(
       (result) => port.postMessage({ id: message.id, ok: true, result }, transferablesOf(result)),
       (err: Error) => port.postMessage({ id: message.id, ok: false, message: err?.message ?? String(err) }),
     );

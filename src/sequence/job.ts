@@ -11,6 +11,11 @@ export interface FrameJobOptions {
   frame: FrameOptions;
   /** Return the per-domain rows. @default false */
   domains?: boolean;
+  /**
+   * Cells put in front of every per-domain row after the frame index and source (e.g. the
+   * frame's field), when the rows are returned as bytes (`domainBytes`).
+   */
+  domainLead?: Cell[];
   /** Return the label image and the columns that tracking needs (transferable). @default false */
   tracking?: boolean;
   /** Return an overlay PNG of every `every`-th frame (kinds, skeleton, ends and junctions). */
@@ -39,8 +44,8 @@ export interface FrameJobResult {
   width: number;
   height: number;
   row: Array<[string, Cell]>;
-  /** The frame's rows of the domain table as CSV lines (without the lead cells the run adds). */
-  domainCsv?: string;
+  /** The frame's rows of the domain table as CSV lines, UTF-8, each led by the frame index, its source and `domainLead` (transferable). */
+  domainBytes?: Uint8Array;
   tracking?: TrackingInput;
   overlayPng?: Uint8Array;
   spectrumPng?: Uint8Array;
@@ -85,10 +90,11 @@ export function runFrameJob(
   const r = analyzer.analyze(frame, { ...options.frame, keepLabels: Boolean(options.tracking) }, where);
   const out: FrameJobResult = { index, where, width: frame.width, height: frame.height, row: frameRow(r) };
   if (options.domains) {
-    // Written here, in the worker, so the thread that writes the tables only prefixes lines.
-    let text = "";
-    for (const d of domainRows(r)) text += csvLine(d);
-    out.domainCsv = text;
+    // Written here, in the worker, as bytes, so the thread that writes the tables only writes
+    // them (one flat string of lines, encoded once: a string built by += costs more to post).
+    const lead = [index, where, ...(options.domainLead ?? [])];
+    const lines = domainRows(r).map((d) => csvLine([...lead, ...d]));
+    out.domainBytes = new TextEncoder().encode(lines.join(""));
   }
   if (options.overlay && index % options.overlay.every === 0 && r.skeleton) {
     const img = analyzer.overlay({ scale: options.overlay.scale });
@@ -114,6 +120,7 @@ export function transferablesOf(result: FrameJobResult): ArrayBuffer[] {
   const t = result.tracking;
   if (t) out.push(...[t.labels.buffer, t.phase.buffer, t.area.buffer, t.centroidX.buffer, t.centroidY.buffer] as ArrayBuffer[]);
   if (result.overlayPng) out.push(result.overlayPng.buffer as ArrayBuffer);
+  if (result.domainBytes) out.push(result.domainBytes.buffer as ArrayBuffer);
   if (result.spectrumPng) out.push(result.spectrumPng.buffer as ArrayBuffer);
   return out;
 }

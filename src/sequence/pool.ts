@@ -14,7 +14,12 @@ export interface PoolWorker {
 export interface OrderedPoolOptions {
   /** Number of workers. @default 1 */
   workers?: number;
-  /** Jobs dispatched or finished but not yet delivered, at most. @default 2 x workers */
+  /**
+   * Jobs posted to one worker before it has answered the first of them (the next one waits in
+   * its queue, so the worker goes on without waiting for this thread). @default 2
+   */
+  perWorker?: number;
+  /** Jobs dispatched or finished but not yet delivered, at most. @default (perWorker + 1) x workers */
   maxInFlight?: number;
   /** Stops dispatching; the iteration ends after the jobs already delivered. */
   signal?: AbortSignal;
@@ -50,7 +55,11 @@ export async function* runOrdered<J, R>(
   if (!Number.isInteger(count) || count < 1) {
     throw new Error(`workers: expected a whole number >= 1, got ${String(count)}`);
   }
-  const maxInFlight = options.maxInFlight ?? 2 * count;
+  const perWorker = options.perWorker ?? 2;
+  if (!Number.isInteger(perWorker) || perWorker < 1) {
+    throw new Error(`perWorker: expected a whole number >= 1, got ${String(perWorker)}`);
+  }
+  const maxInFlight = options.maxInFlight ?? (perWorker + 1) * count;
   if (!Number.isInteger(maxInFlight) || maxInFlight < count) {
     throw new Error(`maxInFlight: expected a whole number >= workers (${count}), got ${String(maxInFlight)}`);
   }
@@ -58,9 +67,13 @@ export async function* runOrdered<J, R>(
     ? (jobs as AsyncIterable<J>)[Symbol.asyncIterator]()
     : (jobs as Iterable<J>)[Symbol.iterator]()) as AsyncIterator<J> | Iterator<J>;
 
-  const idle: number[] = [];
   const workers: Array<PoolWorker | undefined> = [];
-  const busy = new Map<number, { index: number; job: J }>(); // slot -> job
+  // Jobs posted to each slot's worker and not answered yet, oldest first (workers answer in
+  // the order they were given jobs; the oldest is the one running).
+  const queued: Array<Array<{ index: number; job: J }>> = Array.from({ length: count }, () => []);
+  let pending = 0; // posted jobs not answered, over every slot
+  // Jobs to post again before taking new ones from the input (queued behind a job whose worker died).
+  const retry: Array<{ index: number; job: J }> = [];
   const done = new Map<number, PoolOutcome<J, R>>();
   let nextIndex = 0; // next job to take from the input
   let nextOut = 0; // next outcome to deliver
@@ -74,11 +87,11 @@ export async function* runOrdered<J, R>(
   let wake: (() => void) | undefined;
   const notify = () => { const w = wake; wake = undefined; w?.(); };
 
-  const finish = (slot: number, outcome: PoolOutcome<J, R>) => {
+  const finish = (slot: number, at: number, outcome: PoolOutcome<J, R>) => {
     deaths[slot] = 0;
-    busy.delete(slot);
+    queued[slot]!.splice(at, 1);
+    pending--;
     done.set(outcome.index, outcome);
-    idle.push(slot);
     notify();
   };
 
@@ -86,36 +99,58 @@ export async function* runOrdered<J, R>(
     const w = spawn(slot);
     workers[slot] = w;
     w.onMessage((raw) => {
+      if (workers[slot] !== w) return; // a replaced worker's late answer
       const reply = raw as Reply;
-      const current = busy.get(slot);
-      if (!current || reply.id !== current.index) return;
-      finish(slot, reply.ok
+      const q = queued[slot]!;
+      const at = q.findIndex((e) => e.index === reply.id);
+      if (at < 0) return;
+      const current = q[at]!;
+      finish(slot, at, reply.ok
         ? { index: current.index, job: current.job, result: reply.result as R }
         : { index: current.index, job: current.job, error: new Error(reply.message ?? "worker failed") });
     });
     w.onError((err) => {
       if (closing || workers[slot] !== w) return; // terminated by us, or already replaced
-      const current = busy.get(slot);
       void Promise.resolve(w.terminate()).catch(() => undefined);
       workers[slot] = undefined;
-      if (current) {
-        busy.delete(slot);
-        done.set(current.index, { index: current.index, job: current.job, error: err });
-      }
+      // The oldest job was running: it fails. Jobs queued behind it go out again (those that
+      // moved buffers to the dead worker cannot, and fail too).
+      const q = queued[slot]!.splice(0);
+      pending -= q.length;
+      q.forEach((e, k) => {
+        if (k > 0 && !transferablesOf(e.job)?.length) retry.push(e);
+        else done.set(e.index, { index: e.index, job: e.job, error: err });
+      });
+      retry.sort((a, b) => a.index - b.index);
       lastDeath = err;
-      if (++deaths[slot]! < MAX_DEATHS) {
-        start(slot); // a fresh worker takes the slot
-        idle.push(slot);
-      }
+      if (++deaths[slot]! < MAX_DEATHS) start(slot); // a fresh worker takes the slot
       notify();
     });
   };
 
-  for (let s = 0; s < count; s++) { start(s); idle.push(s); }
+  for (let s = 0; s < count; s++) start(s);
+
+  /** The live slot with the fewest queued jobs, if it has room for another. */
+  const freeSlot = (): number => {
+    let best = -1;
+    for (let s = 0; s < count; s++) {
+      if (!workers[s] || queued[s]!.length >= perWorker) continue;
+      if (best < 0 || queued[s]!.length < queued[best]!.length) best = s;
+    }
+    return best;
+  };
+  const post = (slot: number, e: { index: number; job: J }) => {
+    queued[slot]!.push(e);
+    pending++;
+    workers[slot]!.post({ id: e.index, job: e.job }, transferablesOf(e.job));
+  };
 
   const dispatch = async () => {
-    if (deaths.every((d) => d >= MAX_DEATHS) && busy.size === 0) {
+    if (deaths.every((d) => d >= MAX_DEATHS) && pending === 0) {
       // Every worker keeps dying: fail what is left instead of spawning forever.
+      for (const e of retry.splice(0)) {
+        done.set(e.index, { index: e.index, job: e.job, error: new Error(`every worker failed: ${lastDeath?.message ?? "unknown error"}`) });
+      }
       while (!exhausted && nextIndex - nextOut < maxInFlight) {
         const step = await iterator.next();
         if (step.done) { exhausted = true; break; }
@@ -124,14 +159,13 @@ export async function* runOrdered<J, R>(
       }
       return;
     }
-    while (!exhausted && idle.length > 0 && nextIndex - nextOut < maxInFlight && !options.signal?.aborted) {
+    for (let slot = freeSlot(); slot >= 0 && retry.length > 0; slot = freeSlot()) post(slot, retry.shift()!);
+    while (!exhausted && retry.length === 0 && freeSlot() >= 0 && nextIndex - nextOut < maxInFlight && !options.signal?.aborted) {
       const step = await iterator.next();
       if (step.done) { exhausted = true; break; }
-      const slot = idle.shift()!;
-      const index = nextIndex++;
-      busy.set(slot, { index, job: step.value });
-      const transfer = transferablesOf(step.value);
-      workers[slot]!.post({ id: index, job: step.value }, transfer);
+      const slot = freeSlot();
+      if (slot < 0) { retry.push({ index: nextIndex++, job: step.value }); break; } // (a worker died meanwhile)
+      post(slot, { index: nextIndex++, job: step.value });
     }
     if (options.signal?.aborted) exhausted = true;
   };
@@ -146,7 +180,7 @@ export async function* runOrdered<J, R>(
         yield outcome;
         await dispatch();
       }
-      if (exhausted && busy.size === 0 && done.size === 0) return;
+      if (exhausted && pending === 0 && retry.length === 0 && done.size === 0) return;
       await new Promise<void>((resolve) => { wake = resolve; });
     }
   } finally {
@@ -169,10 +203,12 @@ function transferablesOf(job: unknown): Transferable[] | undefined {
  */
 export function inThreadWorker<J, R>(handler: (job: J) => R | Promise<R>): PoolWorker {
   let onMessage: ((m: unknown) => void) | undefined;
+  // Jobs run one after another in the order posted, as in a worker thread.
+  let last: Promise<unknown> = Promise.resolve();
   return {
     post(message) {
       const { id, job } = message as { id: number; job: J };
-      Promise.resolve()
+      last = last
         .then(() => handler(job))
         .then(
           (result) => onMessage?.({ id, ok: true, result }),

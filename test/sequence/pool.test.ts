@@ -102,3 +102,51 @@ describe("workers that cannot start", () => {
     expect(spawned).toBeLessThanOrEqual(6);
   });
 });
+
+describe("jobs queued ahead in a worker", () => {
+  it("posts the next job before the first is answered, runs them in order, and keeps job order", async () => {
+    const posted: number[][] = [];
+    const out = await collect(runOrdered<number, number>(Array.from({ length: 12 }, (_, i) => i), (slot) => {
+      const w = inThreadWorker(async (j: number) => { await sleep(j % 3); return 10 * j; });
+      posted[slot] = [];
+      return { ...w, post(m, t) { posted[slot]!.push((m as { id: number }).id); w.post(m, t); } };
+    }, { workers: 2, perWorker: 2 }));
+    expect(out.map((o) => o.result)).toEqual(Array.from({ length: 12 }, (_, i) => 10 * i));
+    // Both workers got two jobs at the start (before any answer): 0, 2 and 1, 3.
+    expect(posted[0]!.slice(0, 2)).toEqual([0, 2]);
+    expect(posted[1]!.slice(0, 2)).toEqual([1, 3]);
+    expect(posted[0]!.length + posted[1]!.length).toBe(12);
+  });
+
+  it("runs a job queued behind a job whose worker died on a fresh worker", async () => {
+    const spawn = (): PoolWorker => {
+      let onMsg: (m: unknown) => void = () => {};
+      let onErr: (e: Error) => void = () => {};
+      const queue: Array<{ id: number; job: number }> = [];
+      const next = () => {
+        const e = queue[0];
+        if (!e) return;
+        setTimeout(() => {
+          if (e.job === 1) { onErr(new Error("worker exited")); return; } // dies with job 3 queued behind
+          queue.shift();
+          onMsg({ id: e.id, ok: true, result: e.job });
+          next();
+        }, 2);
+      };
+      return {
+        post(m) { queue.push(m as { id: number; job: number }); if (queue.length === 1) next(); },
+        onMessage(h) { onMsg = h; },
+        onError(h) { onErr = h; },
+        terminate() { queue.length = 0; },
+      };
+    };
+    const out = await collect(runOrdered<number, number>([0, 1, 2, 3, 4, 5], spawn, { workers: 2, perWorker: 2 }));
+    expect(out.map((o) => o.result)).toEqual([0, undefined, 2, 3, 4, 5]);
+    expect(out[1]!.error!.message).toBe("worker exited");
+  });
+
+  it("rejects a bad perWorker", async () => {
+    await expect(collect(runOrdered([1], () => inThreadWorker((j) => j), { perWorker: 0 })))
+      .rejects.toThrow("perWorker: expected a whole number >= 1, got 0");
+  });
+});
