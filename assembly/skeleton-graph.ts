@@ -273,19 +273,21 @@ export function skeletonNeighboursCompact(
     const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
     const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
     const base = cnbr + (<usize>t << 5);
+    // Every slot is written and kept only where the neighbour is there (d advances by 0 or 1):
+    // no data-dependent branch (the index read off the skeleton is stale and never kept).
     let d = 0;
     let j = 0;
-    if (xp >= 0) { j = row + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), ldi(index, j) << 3); d++; } }
-    if (ym >= 0) { j = rm + x; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d++; } }
-    if (xm >= 0) { j = row + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 2); d++; } }
-    if (yp >= 0) { j = rp + x; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d++; } }
-    // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y).
-    if (RULE == 2 || (RULE == 0) == (v == 1)) {
-      if (ym >= 0 && xp >= 0 && joinsDiagonal(v, rm + x)) { j = rm + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 4); d++; } }
-      if (ym >= 0 && xm >= 0 && joinsDiagonal(v, rm + xm)) { j = rm + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d++; } }
-      if (yp >= 0 && xm >= 0 && joinsDiagonal(v, row + xm)) { j = rp + xm; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d++; } }
-      if (yp >= 0 && xp >= 0 && joinsDiagonal(v, i)) { j = rp + xp; if (skAt(sk, j, v)) { store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d++; } }
-    }
+    if (xp >= 0) { j = row + xp; store<i32>(base + (<usize>d << 2), ldi(index, j) << 3); d += skAt(sk, j, v); }
+    if (ym >= 0) { j = rm + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d += skAt(sk, j, v); }
+    if (xm >= 0) { j = row + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 2); d += skAt(sk, j, v); }
+    if (yp >= 0) { j = rp + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d += skAt(sk, j, v); }
+    // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y); with the
+    // fixed rules, none in the 4-connected phase.
+    const diag = RULE == 2 ? 1 : i32((RULE == 0) == (v == 1));
+    if (ym >= 0 && xp >= 0) { j = rm + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 4); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + x)); }
+    if (ym >= 0 && xm >= 0) { j = rm + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + xm)); }
+    if (yp >= 0 && xm >= 0) { j = rp + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, row + xm)); }
+    if (yp >= 0 && xp >= 0) { j = rp + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, i)); }
     store<u8>(cdeg + <usize>t, <u8>d);
     store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
     sti(ident, t, t);
