@@ -226,7 +226,7 @@ export class FrameAnalyzer {
       this.lastSkeleton = a;
       this.lastMaps = { phase, labels };
       result.skeleton = { options: a.options, columns: a.columns, up: a.up, down: a.down };
-      if (o.keepLabels) result.skeleton.pruned = a.pruned;
+      if (o.keepLabels) prunedOnRead(result.skeleton, a);
     }
     if (o.spectrum !== "off") {
       const r = this.hexSpectrumOf(frame, o, hw, px, py);
@@ -292,7 +292,7 @@ export class FrameAnalyzer {
     this.lastSkeleton = a;
     this.lastMaps = { phase, labels };
     const out: FrameSkeletons = { options: a.options, columns: a.columns, up: a.up, down: a.down };
-    if (o.keepLabels) out.pruned = a.pruned;
+    if (o.keepLabels) prunedOnRead(out, a);
     return out;
   }
 
@@ -370,6 +370,16 @@ export class FrameAnalyzer {
     this.skeletonWs?.dispose();
     this.skeletonWs = undefined;
   }
+}
+
+/** `pruned` as an enumerable property made on first read (a movie with tracking keeps labels but seldom reads it). */
+function prunedOnRead(out: FrameSkeletons, a: { pruned: Uint8Array }): void {
+  let v: Uint8Array | undefined;
+  Object.defineProperty(out, "pruned", {
+    enumerable: true, configurable: true,
+    get: () => (v ??= a.pruned),
+    set: (x: Uint8Array) => { v = x; },
+  });
 }
 
 function summarize(
