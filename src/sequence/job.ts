@@ -90,8 +90,8 @@ export function runFrameJob(
   const r = analyzer.analyze(frame, { ...options.frame, keepLabels: Boolean(options.tracking) }, where);
   const out: FrameJobResult = { index, where, width: frame.width, height: frame.height, row: frameRow(r) };
   if (options.domains) {
-    // Written here, in the worker, as bytes, so the thread that writes the tables only writes
-    // them (one flat string of lines, encoded once: a string built by += costs more to post).
+    // Written here, in the worker, as bytes (one flat string of lines, encoded once), so the
+    // thread that writes the tables only writes them.
     const lead = [index, where, ...(options.domainLead ?? [])];
     const lines = domainRows(r).map((d) => csvLine([...lead, ...d]));
     out.domainBytes = new TextEncoder().encode(lines.join(""));

@@ -11,7 +11,7 @@ import { createSpectrumWorkspace, SPECTRUM_MIN_SIDE, type SpectrumWorkspace } fr
 import { analyzeSpectrum } from "../spectrum/analyze";
 import type { SpectrumResult } from "../spectrum/result";
 import type { SpectrumOptions } from "../spectrum/options";
-import { analyzeSkeletons, type SkeletonAnalysis, type ResolvedSkeletonOptions } from "./skeleton-analysis";
+import { analyzeSkeletons, lazyPruned, type SkeletonAnalysis, type ResolvedSkeletonOptions } from "./skeleton-analysis";
 import type { SkeletonColumns, PhaseSkeletonSummary } from "./classify";
 import { SkeletonWorkspace } from "../wasm/skeleton";
 import { overlayPixels, type OverlayImage, type OverlayOptions } from "../render/overlay";
@@ -226,7 +226,8 @@ export class FrameAnalyzer {
       this.lastSkeleton = a;
       this.lastMaps = { phase, labels };
       result.skeleton = { options: a.options, columns: a.columns, up: a.up, down: a.down };
-      if (o.keepLabels) prunedOnRead(result.skeleton, a);
+      // Made when read: a movie with tracking keeps labels and seldom reads it.
+      if (o.keepLabels) lazyPruned(result.skeleton, () => a.pruned);
     }
     if (o.spectrum !== "off") {
       const r = this.hexSpectrumOf(frame, o, hw, px, py);
@@ -292,7 +293,7 @@ export class FrameAnalyzer {
     this.lastSkeleton = a;
     this.lastMaps = { phase, labels };
     const out: FrameSkeletons = { options: a.options, columns: a.columns, up: a.up, down: a.down };
-    if (o.keepLabels) prunedOnRead(out, a);
+    if (o.keepLabels) lazyPruned(out, () => a.pruned); // made when read (as above)
     return out;
   }
 
@@ -370,16 +371,6 @@ export class FrameAnalyzer {
     this.skeletonWs?.dispose();
     this.skeletonWs = undefined;
   }
-}
-
-/** `pruned` as an enumerable property made on first read (a movie with tracking keeps labels but seldom reads it). */
-function prunedOnRead(out: FrameSkeletons, a: { pruned: Uint8Array }): void {
-  let v: Uint8Array | undefined;
-  Object.defineProperty(out, "pruned", {
-    enumerable: true, configurable: true,
-    get: () => (v ??= a.pruned),
-    set: (x: Uint8Array) => { v = x; },
-  });
 }
 
 function summarize(

@@ -159,12 +159,16 @@ export function analyzeSkeletons(
     skeleton, pruned: undefined as unknown as Uint8Array, distance, graph,
   };
   // The pruned skeleton as the graph is now, its pixels made on first read (assignable).
-  const later = prunedSkeletonLater(graph);
+  lazyPruned(out, prunedSkeletonLater(graph));
+  return out;
+}
+
+/** `pruned` as an enumerable property made by `make` on first read (assignable like a field). */
+export function lazyPruned(target: { pruned?: Uint8Array }, make: () => Uint8Array): void {
   let pruned: Uint8Array | undefined;
-  Object.defineProperty(out, "pruned", {
+  Object.defineProperty(target, "pruned", {
     enumerable: true, configurable: true,
-    get: () => (pruned ??= later()),
+    get: () => (pruned ??= make()),
     set: (v: Uint8Array) => { pruned = v; },
   });
-  return out;
 }

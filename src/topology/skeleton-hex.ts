@@ -4,9 +4,9 @@
 // in `pixelSize` units (pixelSize = lattice constant) outside; areas in lattice constants squared
 // (sites x sqrt(3)/2), so bubble diameters and densities mean what they mean on a square frame.
 import type { HexWorkspace } from "../wasm/hex";
-import { skeletonGraph, prunedSkeleton } from "./skeleton";
+import { skeletonGraph, prunedSkeletonLater } from "./skeleton";
 import { classifyDomains, summarizePhase } from "./classify";
-import { resolveSkeletonOptions, frameMaps, type LabeledFrame, type SkeletonAnalysis, type SkeletonOptions } from "./skeleton-analysis";
+import { resolveSkeletonOptions, frameMaps, lazyPruned, type LabeledFrame, type SkeletonAnalysis, type SkeletonOptions } from "./skeleton-analysis";
 import { HEX_ROW, HEX_SITE_AREA } from "./hex";
 
 /** Unit vectors of the graph direction codes of a hexagonal skeleton (rows run down). */
@@ -63,10 +63,12 @@ export function analyzeHexSkeletons(ws: HexWorkspace, frame: LabeledFrame, optio
   }
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   const frameArea = n * HEX_SITE_AREA;
-  return {
+  const out = {
     options: o, columns,
     up: summarizePhase(columns, domainPhase, area, 1, frameArea, o.pixelSize),
     down: summarizePhase(columns, domainPhase, area, 0, frameArea, o.pixelSize),
-    skeleton, pruned: prunedSkeleton(graph), distance, graph,
+    skeleton, pruned: undefined as unknown as Uint8Array, distance, graph,
   };
+  lazyPruned(out, prunedSkeletonLater(graph)); // as the square grid's: made on first read
+  return out;
 }
