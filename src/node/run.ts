@@ -210,7 +210,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const fieldUnit = config.fields?.unit || "";
   const fieldName = config.fields ? `field${fieldUnit ? "_" + fieldUnit.replace(/[^A-Za-z0-9µ]+/g, "") : ""}` : undefined;
   if (!checkpoint && files_["domains.csv"]) {
-    const lead = ["frame", "source", ...(fieldName ? [fieldName] : [])];
+    const lead = ["frame", "source", ...(fieldName ? [fieldName] : [])]; // (the names of leadOf's cells)
     files_["domains.csv"].write(csvLine([...lead, ...domainHeader(frameOptions.unit, frameOptions.skeleton !== "off")]));
   }
 
@@ -242,10 +242,14 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     ? Math.max(1, Math.min(config.workers ?? availableParallelism(), Math.max(1, range.end - startAt)))
     : 1;
   const end = config.stopAfter !== undefined ? Math.min(range.end, startAt + config.stopAfter) : range.end;
+  // The cells that lead a frame's rows in every table: the frame, its source and (with fields) its field.
+  const leadOf = (index: number, where: string): Array<[string, Cell]> => [
+    ["frame", index], ["source", where], ...(fieldName ? [[fieldName, config.fields!.values[index]!] as [string, Cell]] : []),
+  ];
   function* jobs(): Generator<FileFrameJob> {
     for (let index = startAt; index < end; index++) {
-      // The domain rows come back led by the frame, its source and (with fields) its field.
-      const options = fieldName && jobOptions.domains ? { ...jobOptions, domainLead: [config.fields!.values[index]!] } : jobOptions;
+      // The worker writes the domain rows with their lead cells.
+      const options = jobOptions.domains ? { ...jobOptions, domainLead: leadOf(index, source.describe(index)).map(([, v]) => v) } : jobOptions;
       yield { files, index, options, ...(config.backgroundFile ? { backgroundFile: config.backgroundFile } : {}) };
     }
   }
@@ -266,8 +270,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
         if (config.strict) throw new Error(`frame ${index} (${where}) failed: ${o.error.message}`);
       } else {
         const r = o.result!;
-        const lead: Array<[string, Cell]> = [["frame", index], ["source", r.where]];
-        if (fieldName) lead.push([fieldName, config.fields!.values[index]!]);
+        const lead = leadOf(index, r.where);
         const extra = config.onResult?.(r) ?? [];
         if (config.tracking && r.tracking) {
           const t = r.tracking;

@@ -11,10 +11,7 @@ export interface FrameJobOptions {
   frame: FrameOptions;
   /** Return the per-domain rows. @default false */
   domains?: boolean;
-  /**
-   * Cells put in front of every per-domain row after the frame index and source (e.g. the
-   * frame's field), when the rows are returned as bytes (`domainBytes`).
-   */
+  /** Cells put in front of every per-domain row (e.g. the frame's index, source and field). */
   domainLead?: Cell[];
   /** Return the label image and the columns that tracking needs (transferable). @default false */
   tracking?: boolean;
@@ -44,7 +41,7 @@ export interface FrameJobResult {
   width: number;
   height: number;
   row: Array<[string, Cell]>;
-  /** The frame's rows of the domain table as CSV lines, UTF-8, each led by the frame index, its source and `domainLead` (transferable). */
+  /** The frame's rows of the domain table as CSV lines, UTF-8, each led by `domainLead` (transferable). */
   domainBytes?: Uint8Array;
   tracking?: TrackingInput;
   overlayPng?: Uint8Array;
@@ -92,7 +89,7 @@ export function runFrameJob(
   if (options.domains) {
     // Written here, in the worker, as bytes (one flat string of lines, encoded once), so the
     // thread that writes the tables only writes them.
-    const lead = [index, where, ...(options.domainLead ?? [])];
+    const lead = options.domainLead ?? [];
     const lines = domainRows(r).map((d) => csvLine([...lead, ...d]));
     out.domainBytes = new TextEncoder().encode(lines.join(""));
   }
