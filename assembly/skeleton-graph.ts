@@ -233,10 +233,12 @@ export function skeletonCompact(
  * The adjacency of skeletonNeighbours directly by skeleton index (the layout skeletonCompact
  * gives), without the frame-sized neighbour lists: list (pixel of each index, raster order),
  * cnbr[8 t + k] = 8 t' + direction (same order E, N, W, S, NE, NW, SW, SE), cdeg (u8), cdist
- * (f32, from dst), ident[t] = t; `index` (i32 per pixel) is scratch. Returns the count.
+ * (f32, from dst), ident[t] = t; `index` (i32 per pixel) is scratch; where lab is not 0 (i32
+ * labels per pixel), clab[t] = the label of index t. Returns the count.
  */
 export function skeletonNeighboursCompact(
   sk: usize, dst: usize, index: usize, list: usize, cnbr: usize, cdeg: usize, cdist: usize, ident: usize,
+  lab: usize, clab: usize,
 ): i32 {
   const w = W, h = H;
   const px = PX && w >= 3, py = PY && h >= 3;
@@ -261,25 +263,29 @@ export function skeletonNeighboursCompact(
     count++;
   }
   // The list is in raster order: the row advances with it (no division per pixel).
-  let y = 0, rowStart = 0;
+  let y = -1, rowStart = -w, rowEnd = 0;
+  let ym = -1, yp = -1, row = 0, rm = 0, rp = 0;
   for (let t = 0; t < count; t++) {
     const i = ldi(list, t);
-    while (i >= rowStart + w) { rowStart += w; y++; }
+    if (i >= rowEnd) {
+      while (i >= rowEnd) { rowStart += w; rowEnd += w; y++; }
+      ym = y > 0 ? y - 1 : py ? h - 1 : -1;
+      yp = y + 1 < h ? y + 1 : py ? 0 : -1;
+      row = rowStart; rm = ym * w; rp = yp * w;
+    }
     const x = i - rowStart;
-    const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
-    const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
-    const row = y * w, rm = ym * w, rp = yp * w;
     const v = <i32>load<u8>(PH + <usize>i);
     const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
     const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
     const base = cnbr + (<usize>t << 5);
     // Every slot is written and kept only where the neighbour is there (d advances by 0 or 1):
-    // no data-dependent branch (the index read off the skeleton is stale and never kept).
+    // no data-dependent branch (the index read off the skeleton is stale and never kept). The
+    // E and W neighbours inside the row are the next and previous skeleton index (raster order).
     let d = 0;
     let j = 0;
-    if (xp >= 0) { j = row + xp; store<i32>(base + (<usize>d << 2), ldi(index, j) << 3); d += skAt(sk, j, v); }
+    if (xp >= 0) { j = row + xp; store<i32>(base + (<usize>d << 2), (xp > x ? t + 1 : ldi(index, j)) << 3); d += skAt(sk, j, v); }
     if (ym >= 0) { j = rm + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d += skAt(sk, j, v); }
-    if (xm >= 0) { j = row + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 2); d += skAt(sk, j, v); }
+    if (xm >= 0) { j = row + xm; store<i32>(base + (<usize>d << 2), ((xm < x ? t - 1 : ldi(index, j)) << 3) | 2); d += skAt(sk, j, v); }
     if (yp >= 0) { j = rp + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d += skAt(sk, j, v); }
     // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y); with the
     // fixed rules, none in the 4-connected phase.
@@ -292,6 +298,7 @@ export function skeletonNeighboursCompact(
     store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
     sti(ident, t, t);
   }
+  if (lab != 0) for (let t = 0; t < count; t++) sti(clab, t, ldi(lab, ldi(list, t)));
   return count;
 }
 
@@ -310,12 +317,22 @@ export function domainTotals(labels: usize, ph: usize, dist: usize, n: i32, coun
     const l = load<i32>(labels + (<usize>i << 2)), d = l - 1;
     if (d < 0 || d >= count) return i;
     const pm = maxd + (<usize>d << 3);
-    let m = load<f64>(pm), j = i;
-    do {
+    // Four pixels at a time while all four carry l (the first always does), then one by one.
+    const lv = i32x4.splat(l);
+    let mv = f32x4.splat(0);
+    let j = i;
+    while (j + 4 <= n) {
+      const q = <usize>j << 2;
+      if (i32x4.bitmask(i32x4.eq(v128.load(labels + q), lv)) != 15) break;
+      mv = f32x4.max(mv, v128.load(dist + q));
+      j += 4;
+    }
+    let m = max(load<f64>(pm), <f64>max(max(f32x4.extract_lane(mv, 0), f32x4.extract_lane(mv, 1)), max(f32x4.extract_lane(mv, 2), f32x4.extract_lane(mv, 3))));
+    while (j < n && load<i32>(labels + (<usize>j << 2)) == l) {
       const v = <f64>load<f32>(dist + (<usize>j << 2));
       if (v > m) m = v;
       j++;
-    } while (j < n && load<i32>(labels + (<usize>j << 2)) == l);
+    }
     const pa = area + (<usize>d << 3);
     store<f64>(pa, load<f64>(pa) + <f64>(j - i));
     store<f64>(pm, m);

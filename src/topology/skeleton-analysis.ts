@@ -142,15 +142,16 @@ export function analyzeSkeletons(
   const reuse = into && into.skeleton.length === n && into.distance.length === n;
   const skeleton = reuse ? into.skeleton : r.skeleton.slice(), distance = reuse ? into.distance : r.distance.slice();
   if (reuse) { skeleton.set(r.skeleton); distance.set(r.distance); }
+  // Area, phase and largest distance of every domain, run by run of one label (Wasm); the labels
+  // stay in the workspace and the adjacency carries them by skeleton index.
+  const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
+  const bad = ws.domainTotals(labels, count, area, maxD, domainPhase);
+  if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
   const compactAdjacency = ws.compactNeighbours();
   const graph = skeletonGraph(
     { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
-  // Area, phase and largest distance of every domain, run by run of one label (Wasm).
-  const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
-  const bad = ws.domainTotals(labels, count, area, maxD, domainPhase);
-  if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
   const out = {
     options: o, columns,

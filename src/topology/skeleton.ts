@@ -224,11 +224,11 @@ function compactAdjacency(input: SkeletonGraphInput, givenDistPtr: number): Comp
 /** Builds the pixel graph of the skeleton, then prunes and merges it. */
 export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions): SkeletonGraph {
   const { width: w, height: h, periodicX, periodicY } = input;
-  let { labels, distance } = input;
+  let { labels } = input;
   const n = w * h;
   const geometry = input.directionGeometry ?? squareDirectionGeometry(w, h, periodicX, periodicY);
   // Offsets first: allocating below may grow Wasm memory and detach the views.
-  const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(distance);
+  const labelsPtr = wasmOffset(labels), givenDistPtr = wasmOffset(input.distance);
   const c = input.compactAdjacency ?? compactAdjacency(input, givenDistPtr);
   const count = c.count;
   const geomPtr = block("geometry", 72 * 8), stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
@@ -238,7 +238,6 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   let branchesPtr = block("branches", 40 * branchCap);
   branchCap = Math.floor(blocks.get("branches")!.bytes / 40);
   // (views given into Wasm memory: fresh views, in case it grew)
-  if (givenDistPtr >= 0) distance = viewF32(givenDistPtr, n);
   if (labelsPtr >= 0) labels = viewI32(labelsPtr, n);
   const gv = viewF64(geomPtr, 72);
   gv.set(geometry.step.subarray(0, 8), 0);
@@ -256,15 +255,19 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const nodeTable = viewI32(nodesPtr, 3 * nodeCap);
   const nodePixel = new Int32Array(nc), nodeDegree = nodeTable.slice(2 * nodeCap, 2 * nodeCap + nc);
   const nodeDomain = new Int32Array(nc), nodeHalf = new Float64Array(nc);
+  // Labels and distances by skeleton index where the adjacency has them (small arrays, read in
+  // any order), else by pixel (frame-sized ones).
+  const cLabel = c.label !== undefined ? viewI32(c.label, count) : undefined, cDist = viewF32(c.distance, count);
   for (let v = 0; v < nc; v++) {
-    const p = list[nodeTable[v]!]!;
-    nodePixel[v] = p;
-    nodeDomain[v] = labels[list[nodeTable[nodeCap + v]!]!]!;
-    nodeHalf[v] = distance[p]!;
+    const best = nodeTable[v]!;
+    nodePixel[v] = list[best]!;
+    nodeDomain[v] = cLabel ? cLabel[nodeTable[nodeCap + v]!]! : labels[list[nodeTable[nodeCap + v]!]!]!;
+    nodeHalf[v] = cDist[best]!;
   }
   const bi = viewI32(branchesPtr, 4 * branchCap), bf = viewF64(branchesPtr + 16 * branchCap, 3 * branchCap);
   const branchDomain = new Int32Array(bc);
-  for (let b = 0; b < bc; b++) branchDomain[b] = labels[list[bi[2 * branchCap + b]!]!]!;
+  if (cLabel) for (let b = 0; b < bc; b++) branchDomain[b] = cLabel[bi[2 * branchCap + b]!]!;
+  else for (let b = 0; b < bc; b++) branchDomain[b] = labels[list[bi[2 * branchCap + b]!]!]!;
   // The owner of every skeleton pixel (the walk touched no other pixel), kept by skeleton index;
   // the frame-sized pixelOwner is filled in on first use.
   const skeletonOwners = { pixels: list.slice(), owners: viewI32(ownerPtr, count).slice() };

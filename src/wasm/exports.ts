@@ -65,6 +65,7 @@ export interface SkeletonGraphKernelExports {
   skeletonNeighboursCompact(
     skeleton: number, distance: number, index: number, list: number,
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
+    labels: number, compactLabels: number,
   ): number;
   skeletonCompact(
     neighbours: number, degrees: number, list: number, count: number, distance: number, index: number,

@@ -53,7 +53,9 @@ export class SkeletonWorkspace {
   private readonly bits: number;
   private disposed = false;
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
-  private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number } | undefined;
+  private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number; label: number } | undefined;
+  /** The candidate list holds the labels given to domainTotals since the last run. */
+  private labelsLoaded = false;
   private lastGeometry: ThinGeometry | undefined;
   private totals: { ptr: number; capacity: number } | undefined;
 
@@ -104,6 +106,7 @@ export class SkeletonWorkspace {
       : geometry.rule === 2 ? k.thinPhase(1) + k.thinPhase(0) : k.thinBits(this.bits);
     k.thinFinish(n);
     this.lastGeometry = geometry;
+    this.labelsLoaded = false;
     return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n), blocksLeft };
   }
 
@@ -135,20 +138,24 @@ export class SkeletonWorkspace {
     // Sized for a skeleton of every pixel (a thinned frame has far fewer; 42 bytes a pixel).
     this.compactBuffers ??= {
       index: wasmAlloc(4 * n), list: wasmAlloc(4 * n), neighbours: wasmAlloc(32 * n), degree: wasmAlloc(n),
-      distance: wasmAlloc(4 * n), identity: wasmAlloc(4 * n),
+      distance: wasmAlloc(4 * n), identity: wasmAlloc(4 * n), label: wasmAlloc(4 * n),
     };
     const c = this.compactBuffers;
     const k = kernels() as K & SkeletonGraphKernelExports;
     k.setGeometry(width, height, g.periodicX ? 1 : 0, g.periodicY ? 1 : 0, g.rule);
     k.setBuffers(this.ph, 0, 0, this.qm);
-    const count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity);
-    return { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
+    const lab = this.labelsLoaded ? this.cand : 0;
+    const count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
+    const out: CompactSkeletonNeighbours = { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
+    if (lab) out.label = c.label;
+    return out;
   }
 
   /**
    * Pixel count, phase and largest distance to the other phase of every domain of `labels`
    * (ids 1..count, the frame of the last `run`), into the given arrays. Returns the first pixel
-   * whose label is outside 1..count, or -1.
+   * whose label is outside 1..count, or -1. A later `compactNeighbours()` (before the next run)
+   * also gives each skeleton index its label.
    */
   domainTotals(labels: Int32Array, count: number, area: Float64Array, maxDistance: Float64Array, domainPhase: Uint8Array): number {
     if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
@@ -162,6 +169,7 @@ export class SkeletonWorkspace {
     const k = kernels() as K & SkeletonGraphKernelExports;
     // The candidate list is free after a run: it takes the labels.
     viewI32(this.cand, n).set(labels);
+    this.labelsLoaded = true;
     const t = this.totals, cap = t.capacity;
     const bad = k.domainTotals(this.cand, this.ph, this.dist, n, count, t.ptr, t.ptr + 8 * cap, t.ptr + 16 * cap);
     area.set(viewF64(t.ptr, count));
@@ -221,6 +229,8 @@ export interface CompactSkeletonNeighbours {
   degree: number;
   distance: number;
   identity: number;
+  /** The domain label of each index (i32), when the workspace had the frame's labels (domainTotals first). */
+  label?: number;
 }
 
 let adjacency: { n: number; ph: number; sk: number; qm: number; deg: number; list: number; nbr: number } | undefined;
