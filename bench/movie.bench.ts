@@ -37,7 +37,7 @@ function writeStack(path: string, frames: number) {
 
 async function measure(path: string, workers: number, out: string) {
   let peakRss = 0;
-  const timer = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage().rss); }, 20);
+  const timer = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage.rss()); }, 20);
   const t0 = performance.now();
   const s = await runAnalysis({
     inputs: [path], out, workers,
@@ -45,7 +45,7 @@ async function measure(path: string, workers: number, out: string) {
   });
   const seconds = (performance.now() - t0) / 1000;
   clearInterval(timer);
-  peakRss = Math.max(peakRss, process.memoryUsage().rss);
+  peakRss = Math.max(peakRss, process.memoryUsage.rss());
   return { fps: s.frames / seconds, seconds, peakRssMB: peakRss / 2 ** 20 };
 }
 

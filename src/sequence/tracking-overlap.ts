@@ -2,18 +2,39 @@
 // previous frame and label in the current frame belong to the same phase, count one towards the
 // pair (prev, cur). One pass over the pixels; runs of equal pairs along a row (the common case:
 // a domain that stays put) are summed before they touch the table, so the table sees one update
-// per run. The table is open addressing with linear probing over two Int32Array key columns
-// (the pair itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
-// The runs come from a Wasm kernel (four pixels a step while nothing changes) on copies of the
-// label images in buffers kept for the frame size. Browser-safe: no node:* imports.
+// per run. The table is open addressing with linear probing over two key columns (the pair
+// itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
+// The pass and the table are a Wasm kernel (assembly/overlap.ts) on copies of the label images
+// in buffers kept for the frame size; the current image stays there as the next count's
+// previous one (`countNext`), so a movie copies each label image in once. Label images that are
+// views into Wasm memory take the same loop in TS. Browser-safe: no node:* imports.
 import { kernels } from "../wasm/instance";
-import { wasmAlloc, wasmFree, viewI32 } from "../wasm/heap";
+import { wasmAlloc, wasmFree, viewI32, viewU8 } from "../wasm/heap";
 import type { KernelExports, OverlapKernelExports } from "../wasm/exports";
 
 const EMPTY = 0; // previous labels are >= 1 in every stored key
 
 function memoryBuffer(): ArrayBufferLike | undefined {
   try { return kernels().memory.buffer; } catch { return undefined; }
+}
+
+/** A Wasm block grown (never shrunk) as needed. */
+class Block {
+  ptr = 0;
+  bytes = 0;
+  at(bytes: number): number {
+    if (bytes > this.bytes) {
+      if (this.ptr) wasmFree(this.ptr);
+      this.bytes = Math.max(bytes, 2 * this.bytes, 64);
+      this.ptr = wasmAlloc(this.bytes);
+    }
+    return this.ptr;
+  }
+  free(): void {
+    if (this.ptr) wasmFree(this.ptr);
+    this.ptr = 0;
+    this.bytes = 0;
+  }
 }
 
 export class OverlapCounter {
@@ -26,8 +47,12 @@ export class OverlapCounter {
   // meet the same partner row after row), -1 when unknown or after the table moved.
   private memoCur = new Int32Array(0);
   private memoSlot = new Int32Array(0);
-  // Wasm copies of the two label images and the run columns, for frames of `wasmN` pixels.
-  private wasm: { n: number; prev: number; cur: number; a: number; b: number; len: number } | undefined;
+  // Wasm side: the two label images (`prev` holds the last current image when `held`), the
+  // table, the memo, both phase columns and the pairs.
+  private img: { n: number; prev: number; cur: number } | undefined;
+  private held = false;
+  private wasmCap = 64;
+  private readonly blocks = { table: new Block(), memo: new Block(), pph: new Block(), cph: new Block(), out: new Block() };
   /** The pairs found by the last `count`: previous label, current label, shared pixels. */
   pairPrev = new Int32Array(64);
   pairCur = new Int32Array(64);
@@ -35,14 +60,140 @@ export class OverlapCounter {
   pairs = 0;
 
   /**
-   * Counts same-phase overlaps of `prev` (ids 1..prevPhase.length - 1) and `cur` (ids 1..curCount).
+   * Counts same-phase overlaps of `prev` (ids 1..prevCount) and `cur` (ids 1..curCount).
    * `prevPhase[id]` / `curPhase[id]` hold each label's phase (index 0 unused). The table starts
    * at four slots per `sizeHint` pair and doubles when half full. Throws if `cur`
-   * holds a label outside 0..curCount; label 0 overlaps nothing.
+   * holds a label outside 0..curCount; label 0 overlaps nothing. Afterwards the counter holds
+   * `cur` for `countNext` when it took the Wasm path (see `holds`).
    */
   count(
     prev: Int32Array, cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
     prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
+  ): number {
+    const n = cur.length;
+    if (prev.length !== n) throw new Error(`${where}: the label images have ${prev.length} and ${n} pixels`);
+    // Label images that are views into Wasm memory take the loop in TS: the kernel's buffers
+    // could grow the memory and detach them (and the caller's other views).
+    const mem = memoryBuffer();
+    this.held = false;
+    if (mem && prev.buffer !== mem && cur.buffer !== mem) {
+      const img = this.images(n);
+      viewI32(img.prev, n).set(prev);
+      return this.countWasm(cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint, prev);
+    }
+    return this.countLoop(prev, cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
+  }
+
+  /** Whether the counter holds a previous label image for `countNext` (the last `count`'s current one, or `hold`'s). */
+  get holds(): boolean {
+    return this.held;
+  }
+
+  /** Keeps `labels` (a copy) as the previous image of the next `countNext`; false where the Wasm path is not open to them. */
+  hold(labels: Int32Array): boolean {
+    const mem = memoryBuffer();
+    if (!mem || labels.buffer === mem) { this.held = false; return false; }
+    const img = this.images(labels.length);
+    viewI32(img.prev, labels.length).set(labels);
+    this.held = true;
+    return true;
+  }
+
+  /** The held previous image, copied into `into` (of its length). */
+  copyHeld(into: Int32Array): void {
+    if (!this.held || !this.img || into.length !== this.img.n) throw new Error("overlap counter: no previous label image of that size is held");
+    into.set(viewI32(this.img.prev, this.img.n));
+  }
+
+  /** `count` with the held image as `prev` (see `holds`); a count that throws keeps it held. */
+  countNext(
+    cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
+    prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
+  ): number {
+    if (!this.held || !this.img) throw new Error(`${where}: the overlap counter holds no previous label image`);
+    if (cur.length !== this.img.n) throw new Error(`${where}: the label images have ${this.img.n} and ${cur.length} pixels`);
+    const mem = memoryBuffer();
+    if (cur.buffer === mem) {
+      const prev = viewI32(this.img.prev, this.img.n).slice();
+      const r = this.countLoop(prev, cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
+      this.held = false; // (the loop leaves `cur` where it is)
+      return r;
+    }
+    return this.countWasm(cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
+  }
+
+  /** Returns the Wasm buffers to the heap (the counter stays usable). */
+  dispose(): void {
+    if (this.img) { wasmFree(this.img.prev); wasmFree(this.img.cur); }
+    this.img = undefined;
+    this.held = false;
+    for (const b of Object.values(this.blocks)) b.free();
+  }
+
+  /** Both label images in Wasm memory for frames of n pixels (the kernels are loaded). */
+  private images(n: number) {
+    if (this.img?.n === n) return this.img;
+    if (this.img) { wasmFree(this.img.prev); wasmFree(this.img.cur); }
+    this.held = false;
+    this.img = { n, prev: wasmAlloc(4 * n + 16), cur: wasmAlloc(4 * n + 16) };
+    return this.img;
+  }
+
+  /** The kernel on img.prev (already there) and `cur`; then `cur` becomes the held previous image. */
+  private countWasm(
+    cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
+    prevCount: number, curCount: number, where: string, sizeHint: number, prev?: Int32Array,
+  ): number {
+    const img = this.img!, n = img.n, b = this.blocks;
+    // Phase columns indexed by label, padded with values that match nothing on the other side.
+    const pph = b.pph.at(prevCount + 1), cph = b.cph.at(curCount + 1);
+    const memo = b.memo.at(8 * (prevCount + 1));
+    let cap = this.wasmCap;
+    while (cap < 4 * sizeHint) cap *= 2;
+    let table = b.table.at(12 * cap), out = b.out.at(6 * cap);
+    const pv = viewU8(pph, prevCount + 1), cv = viewU8(cph, curCount + 1);
+    pv.fill(254); cv.fill(255);
+    pv.set(prevPhase.subarray(0, prevCount + 1));
+    cv.set(curPhase.subarray(0, curCount + 1));
+    viewI32(img.cur, n).set(cur);
+    const k = kernels() as KernelExports & OverlapKernelExports;
+    let r: number;
+    while ((r = k.overlapPairs(img.prev, img.cur, n, prevCount, curCount, pph, cph, table, cap, memo, out, out + 2 * cap, out + 4 * cap)) === -1) {
+      cap *= 2;
+      table = b.table.at(12 * cap);
+      out = b.out.at(6 * cap);
+    }
+    if (r < -1) {
+      const i = -2 - r;
+      if (i < n) throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
+      const got = prev ? prev[i - n] : viewI32(img.prev, n)[i - n];
+      throw new Error(`${where}: expected previous labels in 0..${prevCount}, got ${got} at pixel ${i - n}`);
+    }
+    this.wasmCap = cap;
+    this.lastPath = "wasm";
+    this.reservePairs(r);
+    this.pairPrev.set(viewI32(out, r));
+    this.pairCur.set(viewI32(out + 2 * cap, r));
+    this.pairPixels.set(viewI32(out + 4 * cap, r));
+    this.pairs = r;
+    // This frame's image is the next count's previous one.
+    [img.prev, img.cur] = [img.cur, img.prev];
+    this.held = true;
+    return r;
+  }
+
+  private reservePairs(m: number): void {
+    if (this.pairPrev.length >= m) return;
+    let c = this.pairPrev.length;
+    while (c < m) c *= 2;
+    this.pairPrev = new Int32Array(c);
+    this.pairCur = new Int32Array(c);
+    this.pairPixels = new Int32Array(c);
+  }
+
+  private countLoop(
+    prev: Int32Array, cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
+    prevCount: number, curCount: number, where: string, sizeHint: number,
   ): number {
     this.reset(sizeHint);
     if (this.memoCur.length < prevCount + 1) {
@@ -51,28 +202,6 @@ export class OverlapCounter {
     }
     this.memoCur.fill(-1, 0, prevCount + 1);
     const n = cur.length;
-    if (prev.length !== n) throw new Error(`${where}: the label images have ${prev.length} and ${n} pixels`);
-    // Label images that are views into Wasm memory take the loop in TS: the kernel's buffers
-    // could grow the memory and detach them (and the caller's other views).
-    const mem = memoryBuffer();
-    const w = mem && prev.buffer !== mem && cur.buffer !== mem ? this.wasmBuffers(n) : undefined;
-    if (w) {
-      const k = kernels() as KernelExports & OverlapKernelExports;
-      viewI32(w.prev, n).set(prev);
-      viewI32(w.cur, n).set(cur);
-      const runs = k.overlapRuns(w.prev, w.cur, n, curCount, w.a, w.b, w.len);
-      if (runs < 0) {
-        const i = -runs - 1;
-        throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
-      }
-      const A = viewI32(w.a, runs), B = viewI32(w.b, runs), L = viewI32(w.len, runs);
-      for (let t = 0; t < runs; t++) {
-        const a = A[t]!, b = B[t]!;
-        if (a > 0 && b > 0 && prevPhase[a] === curPhase[b]) this.addRun(a, b, L[t]!);
-      }
-      this.collect();
-      return this.pairs;
-    }
     let runPrev = 0, runCur = 0, run = 0;
     for (let i = 0; i < n; i++) {
       const a = prev[i]!, b = cur[i]!;
@@ -97,20 +226,14 @@ export class OverlapCounter {
     return this.pairs;
   }
 
-  /** Wasm buffers for frames of n pixels (the kernels are loaded: memoryBuffer() answered). */
-  private wasmBuffers(n: number) {
-    if (this.wasm?.n === n) return this.wasm;
-    if (this.wasm) for (const p of [this.wasm.prev, this.wasm.cur, this.wasm.a, this.wasm.b, this.wasm.len]) wasmFree(p);
-    this.wasm = { n, prev: wasmAlloc(4 * n + 16), cur: wasmAlloc(4 * n + 16), a: wasmAlloc(4 * n), b: wasmAlloc(4 * n), len: wasmAlloc(4 * n) };
-    return this.wasm;
-  }
-
-  /** Slots in the table (a power of two, at least twice the pairs of the last count). */
+  /** Slots in the table of the last count (a power of two, at least twice its pairs). */
   capacity(): number {
-    return this.keyPrev.length;
+    return this.lastPath === "wasm" ? this.wasmCap : this.keyPrev.length;
   }
+  private lastPath: "wasm" | "loop" = "loop";
 
   private reset(expected: number): void {
+    this.lastPath = "loop";
     // Capacity: a power of two at least four times the expected number of pairs.
     let cap = 64;
     while (cap < 4 * expected) cap *= 2;
@@ -184,13 +307,7 @@ export class OverlapCounter {
   }
 
   private collect(): void {
-    if (this.pairPrev.length < this.used) {
-      let cap = this.pairPrev.length;
-      while (cap < this.used) cap *= 2;
-      this.pairPrev = new Int32Array(cap);
-      this.pairCur = new Int32Array(cap);
-      this.pairPixels = new Int32Array(cap);
-    }
+    this.reservePairs(this.used);
     let e = 0;
     const kp = this.keyPrev;
     for (let s = 0; s < kp.length; s++) {

@@ -254,8 +254,12 @@ export class DomainTracker {
   private tracks = new TrackColumns();
   private frames = 0;
   private lastFrame = NaN;
-  // The previous frame, indexed by label id (entry 0 unused).
+  // The previous frame, indexed by label id (entry 0 unused). Its label image is held by the
+  // overlap counter (in Wasm memory) where `prevHeld`; prevLabels is then a copy made when
+  // asked for (`previousLabels`), stale while `prevStale`.
   private prevLabels: Int32Array;
+  private prevHeld = false;
+  private prevStale = false;
   private prevCount = 0;
   private prevPhase = new Uint8Array(1);
   private prevTrack = new Int32Array(1);
@@ -306,7 +310,7 @@ export class DomainTracker {
    */
   snapshot(): Uint8Array {
     const arrays: Array<[string, ArrayBufferView]> = [
-      ["prevLabels", this.prevLabels], ["prevPhase", this.prevPhase], ["prevTrack", this.prevTrack],
+      ["prevLabels", this.previousLabels()], ["prevPhase", this.prevPhase], ["prevTrack", this.prevTrack],
       ["prevArea", this.prevArea], ["prevX", this.prevX], ["prevY", this.prevY],
     ];
     const t = this.tracks;
@@ -368,6 +372,8 @@ export class DomainTracker {
       else (this as unknown as Record<string, ArrayBufferView>)[name] = a;
     }
     t.count = head.trackCount;
+    this.prevHeld = false;
+    this.prevStale = false;
     this.frames = head.frames;
     this.lastFrame = head.lastFrame ?? NaN;
     this.prevCount = head.prevCount;
@@ -379,6 +385,17 @@ export class DomainTracker {
     this.frames = 0;
     this.lastFrame = NaN;
     this.prevCount = 0;
+    this.prevHeld = false;
+    this.prevStale = false;
+  }
+
+  /** The previous frame's label image (copied out of the overlap counter when it holds it). */
+  private previousLabels(): Int32Array {
+    if (this.prevStale) {
+      this.overlap.copyHeld(this.prevLabels);
+      this.prevStale = false;
+    }
+    return this.prevLabels;
   }
 
   /**
@@ -440,8 +457,17 @@ export class DomainTracker {
       events.trackIds[d - 1] = t + 1;
     }
 
-    // This frame becomes the previous one.
-    this.prevLabels.set(labels);
+    // This frame becomes the previous one: its labels stay in the overlap counter (the link
+    // left them there; the first frame is handed to it), else they are copied.
+    const held = this.frames === 0 ? this.overlap.hold(labels) : this.overlap.holds;
+    if (held) {
+      this.prevHeld = true;
+      this.prevStale = true;
+    } else {
+      this.prevLabels.set(labels);
+      this.prevHeld = false;
+      this.prevStale = false;
+    }
     this.prevCount = K;
     [this.prevPhase, this.curPhase] = [this.curPhase, this.prevPhase];
     [this.prevTrack, this.curTrack] = [this.curTrack, this.prevTrack];
@@ -490,7 +516,8 @@ export class DomainTracker {
     const prevPhase = this.prevPhase, curPhase = this.curPhase;
     const prevTrack = this.prevTrack, curTrack = this.curTrack;
     const ov = this.overlap;
-    ov.count(this.prevLabels, labels, prevPhase, curPhase, Kp, K, where);
+    if (this.prevHeld && ov.holds) ov.countNext(labels, prevPhase, curPhase, Kp, K, where);
+    else ov.count(this.previousLabels(), labels, prevPhase, curPhase, Kp, K, where);
 
     // Links: overlap pairs with at least minOverlap pixels.
     const linkPrev: number[] = [], linkCur: number[] = [], linkPixels: number[] = [];
@@ -654,7 +681,9 @@ export class DomainTracker {
     }
     // The previous frame is now later's last one, with global ids.
     const Kp = later.prevCount;
-    this.prevLabels.set(later.prevLabels);
+    this.prevLabels.set(later.previousLabels());
+    this.prevHeld = false;
+    this.prevStale = false;
     this.prevCount = Kp;
     this.prevPhase = later.prevPhase.slice(0, Kp + 1);
     this.prevArea = later.prevArea.slice(0, Kp + 1);

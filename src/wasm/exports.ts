@@ -87,5 +87,8 @@ export interface HexKernelExports {
 
 // Runs of label pairs between two frames (assembly/overlap.ts).
 export interface OverlapKernelExports {
-  overlapRuns(prev: number, cur: number, n: number, maxCur: number, outA: number, outB: number, outN: number): number;
+  overlapPairs(
+    prev: number, cur: number, n: number, prevCount: number, maxCur: number, prevPhase: number, curPhase: number,
+    table: number, capacity: number, memo: number, outA: number, outB: number, outN: number,
+  ): number;
 }

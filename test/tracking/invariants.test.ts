@@ -3,6 +3,8 @@ import { gaussianRandomField } from "../../src/demo/grf";
 import type { Boundary } from "../../src/topology/options";
 import { wasmAlloc, wasmFree, viewI32 } from "../../src/wasm/heap";
 import { OverlapCounter } from "../../src/sequence/tracking-overlap";
+import { DomainTracker } from "../../src/sequence/tracking";
+import { createAnalyzer } from "../../src/index";
 import { trackMovie, type Canvas, type Movie } from "./movie";
 import { shift, randomFrame } from "../helpers/grid";
 
@@ -176,6 +178,73 @@ describe("overlap counting", () => {
     bad[1234] = 99999;
     expect(() => kernel.count(labels[0]!, bad, phases[0]!, phases[1]!, phases[0]!.length - 1, phases[1]!.length - 1, "frame 7"))
       .toThrow("frame 7: expected labels in 0.." + (phases[1]!.length - 1) + " (the domains' count), got 99999 at pixel 1234");
+  });
+
+  it("keeps each frame's image for the next count, also through a count that throws", () => {
+    // Frame after frame, countNext (the held image as the previous one) against count with the
+    // previous image given, on four frames; a frame with a bad label throws and the held image
+    // stays the one before it (common practice: a failed step leaves the state as it was).
+    const frames = [31, 32, 33, 34].map((seed) => randomFrame(seed, 83, 67, 0.5));
+    const m = trackMovie(frames);
+    const labels = m.labels as Int32Array[];
+    const phases = labels.map((l, k) => {
+      const p = new Uint8Array(Math.max(...l) + 1).fill(255);
+      for (let i = 0; i < l.length; i++) p[l[i]!] = frames[k]!.data[i]!;
+      return p;
+    });
+    const K = (k: number) => phases[k]!.length - 1;
+    const pairs = (c: OverlapCounter, n: number) => Array.from({ length: n }, (_, e) => `${c.pairPrev[e]},${c.pairCur[e]}:${c.pairPixels[e]}`).sort();
+    const next = new OverlapCounter(), given = new OverlapCounter();
+    expect(next.holds).toBe(false);
+    expect(next.hold(labels[0]!)).toBe(true);
+    for (let k = 1; k < labels.length; k++) {
+      const a = next.countNext(labels[k]!, phases[k - 1]!, phases[k]!, K(k - 1), K(k), "test");
+      const b = given.count(labels[k - 1]!, labels[k]!, phases[k - 1]!, phases[k]!, K(k - 1), K(k), "test");
+      expect(a).toBe(b);
+      expect(a).toBeGreaterThan(50);
+      expect(pairs(next, a)).toEqual(pairs(given, b));
+      expect(next.holds).toBe(true);
+      const copy = new Int32Array(labels[k]!.length);
+      next.copyHeld(copy);
+      expect(copy).toEqual(labels[k]!);
+    }
+    const last = labels.length - 1;
+    const bad = labels[1]!.slice();
+    bad[777] = K(1) + 5;
+    expect(() => next.countNext(bad, phases[last]!, phases[1]!, K(last), K(1), "frame 9"))
+      .toThrow(`frame 9: expected labels in 0..${K(1)} (the domains' count), got ${K(1) + 5} at pixel 777`);
+    expect(next.holds).toBe(true);
+    const a = next.countNext(labels[1]!, phases[last]!, phases[1]!, K(last), K(1), "test");
+    const b = given.count(labels[last]!, labels[1]!, phases[last]!, phases[1]!, K(last), K(1), "test");
+    expect(pairs(next, a)).toEqual(pairs(given, b));
+    // A previous image whose labels exceed its count is named too.
+    const wrongPrev = labels[0]!.slice();
+    wrongPrev[5] = K(0) + 9;
+    expect(() => given.count(wrongPrev, labels[1]!, phases[0]!, phases[1]!, K(0), K(1), "frame 2"))
+      .toThrow(`frame 2: expected previous labels in 0..${K(0)}, got ${K(0) + 9} at pixel 5`);
+    next.dispose();
+    given.dispose();
+  });
+
+  it("a tracker restored from a snapshot taken mid-movie goes on exactly as the unbroken one", () => {
+    // Labels handed over as arrays of their own (as a movie run's workers give them), so the
+    // tracker keeps the previous image in the overlap counter and the snapshot copies it out.
+    const frames = [41, 42, 43, 44, 45].map((seed) => randomFrame(seed, 64, 48, 0.5));
+    const analyzer = createAnalyzer(64, 48);
+    const analyzed = frames.map((f) => {
+      const r = analyzer.analyze(f, { threshold: 0.5 });
+      return { labels: analyzer.labels().slice(), domains: r.domains };
+    });
+    analyzer.dispose();
+    const whole = new DomainTracker(64, 48), head = new DomainTracker(64, 48);
+    const events = analyzed.map((a, k) => whole.push(a.labels, a.domains, { frame: k }));
+    for (let k = 0; k < 3; k++) head.push(analyzed[k]!.labels, analyzed[k]!.domains, { frame: k });
+    const resumed = DomainTracker.fromSnapshot(head.snapshot());
+    for (let k = 3; k < frames.length; k++) {
+      expect(resumed.push(analyzed[k]!.labels, analyzed[k]!.domains, { frame: k })).toEqual(events[k]);
+    }
+    expect(resumed.trackSummary()).toEqual(whole.trackSummary());
+    expect(events.slice(1).some((e) => e.up.split + e.up.merged + e.down.split + e.down.merged > 0)).toBe(true);
   });
 
   it("counts nothing between pixels that changed phase", () => {
