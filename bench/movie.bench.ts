@@ -36,17 +36,28 @@ function writeStack(path: string, frames: number) {
 }
 
 async function measure(path: string, workers: number, out: string) {
+  // RSS sampled on a timer and after every frame (with one worker the analysis runs in this
+  // thread and the timer rarely gets a turn); the peak of each quarter of the run shows whether
+  // memory levels off.
   let peakRss = 0;
-  const timer = setInterval(() => { peakRss = Math.max(peakRss, process.memoryUsage.rss()); }, 20);
+  const quarters = [0, 0, 0, 0];
+  let quarter = 0;
+  const sample = () => {
+    const r = process.memoryUsage.rss();
+    peakRss = Math.max(peakRss, r);
+    quarters[quarter] = Math.max(quarters[quarter]!, r);
+  };
+  const timer = setInterval(sample, 20);
   const t0 = performance.now();
   const s = await runAnalysis({
     inputs: [path], out, workers,
     options: { frame: { threshold: 127.5, minDomainArea: 4 }, domains: true }, tracking: {},
+    onProgress: (done, total) => { sample(); quarter = Math.min(3, Math.floor((4 * done) / total)); },
   });
   const seconds = (performance.now() - t0) / 1000;
   clearInterval(timer);
-  peakRss = Math.max(peakRss, process.memoryUsage.rss());
-  return { fps: s.frames / seconds, seconds, peakRssMB: peakRss / 2 ** 20 };
+  sample();
+  return { fps: s.frames / seconds, seconds, peakRssMB: peakRss / 2 ** 20, quartersMB: quarters.map((q) => q / 2 ** 20) };
 }
 
 const half = join(dir, "half.npy"), full = join(dir, "full.npy");
@@ -54,13 +65,14 @@ writeStack(half, Math.floor(FRAMES / 2));
 writeStack(full, FRAMES);
 console.log(`movie: ${FRAMES} frames of ${SIZE} x ${SIZE}, everything on (skeleton, spectrum, tracking, domain table)`);
 const rows: string[] = [];
-const results: Record<string, { fps: number; seconds: number; peakRssMB: number }> = {};
+const results: Record<string, Awaited<ReturnType<typeof measure>>> = {};
 for (const workers of [1, 2]) {
   for (const [name, path] of [["half", half], ["full", full]] as const) {
     const r = await measure(path, workers, join(dir, `out-${workers}-${name}`));
     results[`${workers}-${name}`] = r;
     rows.push(`workers ${workers}  ${name === "half" ? Math.floor(FRAMES / 2) : FRAMES} frames  ${r.fps.toFixed(1).padStart(6)} frames/s  ` +
-      `${r.seconds.toFixed(1).padStart(6)} s  peak RSS (main thread process) ${r.peakRssMB.toFixed(0)} MB`);
+      `${r.seconds.toFixed(1).padStart(6)} s  peak RSS (the process, workers included) ${r.peakRssMB.toFixed(0)} MB ` +
+      `(by quarter of the run: ${r.quartersMB.map((q) => q.toFixed(0)).join(", ")})`);
     console.log(rows[rows.length - 1]);
   }
 }
