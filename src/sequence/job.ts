@@ -3,7 +3,7 @@
 import type { Frame } from "../types";
 import { FrameAnalyzer } from "../topology/analyze";
 import type { FrameOptions } from "../topology/options";
-import { frameRow, domainRows, csvLine, type Cell } from "../topology/rows";
+import { frameRow, domainRows, csvLine, csvCell, type Cell } from "../topology/rows";
 import { encodeRgbaPng } from "../io/png";
 import { Preprocessor, type PreprocessOptions } from "../prep/preprocess";
 
@@ -89,8 +89,9 @@ export function runFrameJob(
   if (options.domains) {
     // Written here, in the worker, as bytes (one flat string of lines, encoded once), so the
     // thread that writes the tables only writes them.
-    const lead = options.domainLead ?? [];
-    const lines = domainRows(r).map((d) => csvLine([...lead, ...d]));
+    // (the lead cells are the same on every row: written once)
+    const lead = (options.domainLead ?? []).map((c) => `${csvCell(c)},`).join("");
+    const lines = domainRows(r).map((d) => lead + csvLine(d));
     out.domainBytes = new TextEncoder().encode(lines.join(""));
   }
   if (options.overlay && index % options.overlay.every === 0 && r.skeleton) {

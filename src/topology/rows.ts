@@ -115,17 +115,71 @@ export function csvCell(v: Cell): string {
   if (typeof v === "number") {
     if (Number.isInteger(v)) return String(v);
     if (!Number.isFinite(v)) return "";
-    // 10 significant digits, written as String(Number(v.toPrecision(10))) would write them: in
-    // fixed notation that is the digits without trailing zeros (no exponent form is shortened).
-    const s = v.toPrecision(10);
-    if (s.includes("e")) return String(Number(s));
-    if (!s.includes(".")) return s; // ten digits before the point
-    let end = s.length;
-    while (s.charCodeAt(end - 1) === 48) end--; // '0'
-    if (s.charCodeAt(end - 1) === 46) end--; // '.'
-    return s.slice(0, end);
+    return fixedDigits(v) ?? slowDigits(v);
   }
   return /[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+}
+
+/** 10 significant digits, written as String(Number(v.toPrecision(10))) would write them. */
+function slowDigits(v: number): string {
+  // In fixed notation that is the digits without trailing zeros (no exponent form is shortened).
+  const s = v.toPrecision(10);
+  if (s.includes("e")) return String(Number(s));
+  if (!s.includes(".")) return s; // ten digits before the point
+  let end = s.length;
+  while (s.charCodeAt(end - 1) === 48) end--; // '0'
+  if (s.charCodeAt(end - 1) === 46) end--; // '.'
+  return s.slice(0, end);
+}
+
+const POW10 = Float64Array.from({ length: 16 }, (_v, k) => 10 ** k);
+const ZEROS = "0000000000";
+
+/**
+ * slowDigits without toPrecision where the answer is plain: 1e-6 <= |v| < 1e9 and the ten-digit
+ * rounding far from a tie. From 1 up: the integer part as it is, the fraction (exact: |v| minus
+ * its integer part) times 10^(10 - integer digits); below 1: |v| times 10^(10 + leading zeros).
+ * Either product is off by a few 1e-6 at most, so a fraction within 1e-4 of one half, or a
+ * rounding that carries into another digit, goes the slow way (undefined).
+ */
+function fixedDigits(v: number): string | undefined {
+  const a = v < 0 ? -v : v;
+  if (!(a >= 1e-6 && a < 1e9)) return undefined;
+  let out: string;
+  if (a >= 1) {
+    const ip = Math.floor(a);
+    const il = ip < 10 ? 1 : ip < 100 ? 2 : ip < 1e3 ? 3 : ip < 1e4 ? 4 : ip < 1e5 ? 5 : ip < 1e6 ? 6 : ip < 1e7 ? 7 : ip < 1e8 ? 8 : 9;
+    const fd = 10 - il, scaled = (a - ip) * POW10[fd]!;
+    const fl = Math.floor(scaled), fr = scaled - fl;
+    if (fr > 0.4999 && fr < 0.5001) return undefined;
+    const f = fr > 0.5 ? fl + 1 : fl;
+    if (f >= POW10[fd]!) return undefined;
+    out = f === 0 ? String(ip) : `${ip}.${trimZeros(padDigits(f, fd))}`;
+  } else {
+    let z = 0; // zeros after the point
+    while (a < 0.1 / POW10[z]!) z++;
+    const scaled = a * POW10[10 + z]!;
+    const fl = Math.floor(scaled), fr = scaled - fl;
+    if (fr > 0.4999 && fr < 0.5001) return undefined;
+    const r = fr > 0.5 ? fl + 1 : fl;
+    if (r >= 1e10) return undefined;
+    // Ten digits as two halves of five (numbers below 2^31 print fastest).
+    const hi = Math.floor(r / 1e5);
+    out = `0.${ZEROS.slice(0, z)}${trimZeros(String(hi) + padDigits(r - hi * 1e5, 5))}`;
+  }
+  return v < 0 ? `-${out}` : out;
+}
+
+/** n (0 <= n < 10^width) with leading zeros to `width` digits. */
+function padDigits(n: number, width: number): string {
+  const s = String(n);
+  return s.length < width ? ZEROS.slice(0, width - s.length) + s : s;
+}
+
+function trimZeros(s: string): string {
+  let end = s.length;
+  while (end > 0 && s.charCodeAt(end - 1) === 48) end--;
+  return end === s.length ? s : s.slice(0, end);
 }
 
 export function csvLine(cells: Cell[]): string {
