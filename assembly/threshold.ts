@@ -125,18 +125,30 @@ export function saddleQuads(src: usize, kind: i32, level: f64, invert: bool, qm:
 }
 
 /**
- * Flips every pixel of a domain of phase `phase` whose area (i32 column) is below `minArea`
- * into the other phase. Returns the number of pixels flipped.
+ * Flips every pixel of a domain of phase `phase` whose area (i32 column of count + 1 entries) is
+ * below `minArea` into the other phase. Returns the number of pixels flipped.
  */
-export function absorbSpecks(area: usize, domPhase: usize, phase: i32, minArea: i32): i32 {
+export function absorbSpecks(area: usize, domPhase: usize, count: i32, phase: i32, minArea: i32): i32 {
   const n = W * H;
   let flipped = 0;
-  // Run by run of one label: one look at the domain's columns per run.
+  // No such domain: no pass over the pixels.
+  let any = false;
+  for (let d = 1; d <= count; d++) {
+    if (ldi(domPhase, d) == phase && ldi(area, d) < minArea) { any = true; break; }
+  }
+  if (!any) return 0;
+  // Run by run of one label (four pixels a step): one look at the domain's columns per run.
   let i = 0;
   while (i < n) {
     const d = ldi(LB, i);
+    const dv = i32x4.splat(d);
     let j = i + 1;
-    while (j < n && ldi(LB, j) == d) j++;
+    while (j + 4 <= n) {
+      const m = i32x4.bitmask(i32x4.eq(v128.load(LB + (<usize>j << 2)), dv));
+      if (m != 15) { j += <i32>ctz(~m); break; }
+      j += 4;
+    }
+    if (j + 4 > n) while (j < n && ldi(LB, j) == d) j++;
     if (ldi(domPhase, d) == phase && ldi(area, d) < minArea) {
       memory.fill(PH + <usize>i, <u8>(1 - phase), <usize>(j - i));
       flipped += j - i;
