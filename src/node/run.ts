@@ -133,18 +133,48 @@ class PartialFile {
       this.position = keepBytes;
     }
   }
+  // Rows wait here until about 64 KB are pending (a few writes a second instead of one per
+  // frame); sync, size and close write them first. A resume truncates to the last checkpoint
+  // anyway, so rows pending at a crash are rows it writes again.
+  private text = "";
+  private chunks: Uint8Array[] = [];
+  private pending = 0;
   write(text: string): void {
-    this.writeBytes(Buffer.from(text, "utf8"));
+    this.text += text;
+    if (this.text.length >= PENDING_BYTES) this.flushText();
   }
   writeBytes(bytes: Uint8Array): void {
-    let done = 0;
-    while (done < bytes.length) done += writeSync(this.fd, bytes, done, bytes.length - done, this.position + done);
-    this.position += bytes.length;
+    this.flushText();
+    this.chunks.push(bytes);
+    this.pending += bytes.length;
+    if (this.pending >= PENDING_BYTES) this.flush();
   }
-  size(): number { return this.position; }
-  sync(): void { fsyncSync(this.fd); }
-  close(): void { closeSync(this.fd); }
+  private flushText(): void {
+    if (this.text.length === 0) return;
+    const b = Buffer.from(this.text, "utf8");
+    this.text = "";
+    this.chunks.push(b);
+    this.pending += b.length;
+    if (this.pending >= PENDING_BYTES) this.flush();
+  }
+  private flush(): void {
+    const all = this.chunks.length === 1 ? this.chunks[0]! : Buffer.concat(this.chunks);
+    this.chunks = [];
+    this.pending = 0;
+    let done = 0;
+    while (done < all.length) done += writeSync(this.fd, all, done, all.length - done, this.position + done);
+    this.position += all.length;
+  }
+  private flushAll(): void {
+    this.flushText();
+    if (this.chunks.length > 0) this.flush();
+  }
+  size(): number { this.flushAll(); return this.position; }
+  sync(): void { this.flushAll(); fsyncSync(this.fd); }
+  close(): void { this.flushAll(); closeSync(this.fd); }
 }
+
+const PENDING_BYTES = 1 << 16;
 
 function workerThread(): PoolWorker {
   const w = new Worker(new URL("./worker.js", import.meta.url), { workerData: { domtopoWorker: true } });
