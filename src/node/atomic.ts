@@ -48,3 +48,22 @@ export class AtomicWriter {
     try { unlinkSync(this.tmp); } catch { /* nothing to remove */ }
   }
 }
+
+/**
+ * The track table (header, then one row per track in id order) written atomically in batches,
+ * so that its memory does not grow with the number of tracks. Returns the rows written.
+ */
+export function writeTrackTable(path: string, header: string, tracks: number, rowsOf: (start: number, end: number) => string): number {
+  const w = new AtomicWriter(path);
+  try {
+    w.write(header);
+    for (let s = 0; s < tracks; s += TRACK_BATCH) w.write(rowsOf(s, Math.min(tracks, s + TRACK_BATCH)));
+    w.commit();
+  } catch (err) {
+    w.abort();
+    throw err;
+  }
+  return tracks;
+}
+
+const TRACK_BATCH = 4096;

@@ -8,7 +8,7 @@
 // is written from the stitched tracker. Every file appears whole (atomic writes), run.json last.
 import { closeSync, existsSync, openSync, readFileSync, readSync, readdirSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { AtomicWriter, writeFileAtomic } from "./atomic";
+import { AtomicWriter, writeFileAtomic, writeTrackTable } from "./atomic";
 import { SHARD_FILES } from "./run";
 import { decodeBoundaryFrame, type FrameRange } from "./shard";
 import { csvLine } from "../topology/rows";
@@ -318,9 +318,8 @@ export function mergeShards(config: MergeConfig): MergeSummary {
   let trackCount = 0;
   if (base.tracking) {
     const unit = resolveFrameOptions((base.options as { frame: FrameOptions }).frame).unit;
-    const rows = tracker ? trackRows(tracker.trackSummary()) : [];
-    trackCount = rows.length;
-    writeFileAtomic(join(out, "tracks.csv"), csvLine(trackHeader(unit)) + rows.map((r) => csvLine(r)).join(""));
+    trackCount = writeTrackTable(join(out, "tracks.csv"), csvLine(trackHeader(unit)), tracker?.trackCount ?? 0,
+      (s, e) => trackRows(tracker!.trackSummary(s, e)).map((r) => csvLine(r)).join(""));
   }
   for (const folder of ["overlays", "spectra"]) {
     if (!outputs.includes(`${folder}/`)) continue;

@@ -19,7 +19,7 @@ import { runOrdered, inThreadWorker, type PoolWorker } from "../sequence/pool";
 import type { FrameJobOptions, FrameJobResult } from "../sequence/job";
 import { handleFileJob, type FileFrameJob } from "./worker";
 import { csvLine, domainHeader, type Cell } from "../topology/rows";
-import { writeFileAtomic } from "./atomic";
+import { writeFileAtomic, writeTrackTable } from "./atomic";
 import { resolveFrameOptions } from "../topology/options";
 import { VERSION } from "../version";
 import type { FieldValues } from "../io/fields";
@@ -351,8 +351,8 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
       const unit = frameOptions.unit;
       // A resumed run with no frame left to analyze has its tracker only in the checkpoint.
       if (!tracker && existsSync(trackerPath)) tracker = DomainTracker.fromSnapshot(readFileSync(trackerPath));
-      const rows = tracker ? trackRows(tracker.trackSummary()) : [];
-      writeFileAtomic(join(out, "tracks.csv"), csvLine(trackHeader(unit)) + rows.map((r) => csvLine(r)).join(""));
+      writeTrackTable(join(out, "tracks.csv"), csvLine(trackHeader(unit)), tracker?.trackCount ?? 0,
+        (s, e) => trackRows(tracker!.trackSummary(s, e)).map((r) => csvLine(r)).join(""));
       if (sharded) {
         if (tracker) writeFileAtomic(join(out, SHARD_FILES.tracker), tracker.snapshot());
         else for (const f of Object.values(SHARD_FILES)) if (existsSync(join(out, f))) unlinkSync(join(out, f));

@@ -696,11 +696,11 @@ export class DomainTracker {
     return events;
   }
 
-  /** One row per track opened so far, in track-id order. */
-  trackSummary(): TrackRow[] {
+  /** One row per track opened so far, in track-id order (the tracks start..end - 1 by index when given). */
+  trackSummary(start = 0, end = this.tracks.count): TrackRow[] {
     const tr = this.tracks;
     const rows: TrackRow[] = [];
-    for (let t = 0; t < tr.count; t++) {
+    for (let t = Math.max(0, start); t < Math.min(end, tr.count); t++) {
       rows.push({
         trackId: t + 1,
         phase: tr.phase[t] === 1 ? "up" : "down",
