@@ -117,7 +117,16 @@ export function csvCell(v: Cell): string {
     if (!Number.isFinite(v)) return "";
     return fixedDigits(v) ?? slowDigits(v);
   }
-  return /[",\n\r]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+  return plainText(v) ? v : `"${v.replace(/"/g, '""')}"`;
+}
+
+/** No quote, comma or line break in s. */
+function plainText(s: string): boolean {
+  for (let i = 0; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    if (c === 34 || c === 44 || c === 10 || c === 13) return false;
+  }
+  return true;
 }
 
 /** 10 significant digits, written as String(Number(v.toPrecision(10))) would write them. */
@@ -183,5 +192,7 @@ function trimZeros(s: string): string {
 }
 
 export function csvLine(cells: Cell[]): string {
-  return cells.map(csvCell).join(",") + "\n";
+  let line = cells.length > 0 ? csvCell(cells[0]!) : "";
+  for (let i = 1; i < cells.length; i++) line += `,${csvCell(cells[i]!)}`;
+  return `${line}\n`;
 }
