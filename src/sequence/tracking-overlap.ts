@@ -4,38 +4,12 @@
 // a domain that stays put) are summed before they touch the table, so the table sees one update
 // per run. The table is open addressing with linear probing over two key columns (the pair
 // itself rather than prev * (Kcur + 1) + cur, which would overflow 2^31 for large K).
-// The pass and the table are a Wasm kernel (assembly/overlap.ts) on copies of the label images
-// in buffers kept for the frame size; the current image stays there as the next count's
-// previous one (`countNext`), so a movie copies each label image in once. Label images that are
-// views into Wasm memory take the same loop in TS. Browser-safe: no node:* imports.
-import { kernels } from "../wasm/instance";
-import { wasmAlloc, wasmFree, viewI32, viewU8 } from "../wasm/heap";
-import type { KernelExports, OverlapKernelExports } from "../wasm/exports";
+// The pass and the table are a Wasm kernel (src/wasm/overlap.ts); the current image stays there
+// as the next count's previous one (`countNext`), so a movie copies each label image in once.
+// Label images that are views into Wasm memory take the same loop in TS. Browser-safe.
+import { OverlapWorkspace, wasmMemoryBuffer } from "../wasm/overlap";
 
 const EMPTY = 0; // previous labels are >= 1 in every stored key
-
-function memoryBuffer(): ArrayBufferLike | undefined {
-  try { return kernels().memory.buffer; } catch { return undefined; }
-}
-
-/** A Wasm block grown (never shrunk) as needed. */
-class Block {
-  ptr = 0;
-  bytes = 0;
-  at(bytes: number): number {
-    if (bytes > this.bytes) {
-      if (this.ptr) wasmFree(this.ptr);
-      this.bytes = Math.max(bytes, 2 * this.bytes, 64);
-      this.ptr = wasmAlloc(this.bytes);
-    }
-    return this.ptr;
-  }
-  free(): void {
-    if (this.ptr) wasmFree(this.ptr);
-    this.ptr = 0;
-    this.bytes = 0;
-  }
-}
 
 export class OverlapCounter {
   private keyPrev = new Int32Array(0);
@@ -47,12 +21,10 @@ export class OverlapCounter {
   // meet the same partner row after row), -1 when unknown or after the table moved.
   private memoCur = new Int32Array(0);
   private memoSlot = new Int32Array(0);
-  // Wasm side: the two label images (`prev` holds the last current image when `held`), the
-  // table, the memo, both phase columns and the pairs.
-  private img: { n: number; prev: number; cur: number } | undefined;
+  private ws: OverlapWorkspace | undefined;
+  /** The workspace's previous image is the last count's current one (or `hold`'s). */
   private held = false;
-  private wasmCap = 64;
-  private readonly blocks = { table: new Block(), memo: new Block(), pph: new Block(), cph: new Block(), out: new Block() };
+  private lastPath: "wasm" | "loop" = "loop";
   /** The pairs found by the last `count`: previous label, current label, shared pixels. */
   pairPrev = new Int32Array(64);
   pairCur = new Int32Array(64);
@@ -72,13 +44,12 @@ export class OverlapCounter {
   ): number {
     const n = cur.length;
     if (prev.length !== n) throw new Error(`${where}: the label images have ${prev.length} and ${n} pixels`);
+    this.held = false;
     // Label images that are views into Wasm memory take the loop in TS: the kernel's buffers
     // could grow the memory and detach them (and the caller's other views).
-    const mem = memoryBuffer();
-    this.held = false;
+    const mem = wasmMemoryBuffer();
     if (mem && prev.buffer !== mem && cur.buffer !== mem) {
-      const img = this.images(n);
-      viewI32(img.prev, n).set(prev);
+      this.workspace(n).loadPrevious(prev);
       return this.countWasm(cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint, prev);
     }
     return this.countLoop(prev, cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
@@ -91,18 +62,18 @@ export class OverlapCounter {
 
   /** Keeps `labels` (a copy) as the previous image of the next `countNext`; false where the Wasm path is not open to them. */
   hold(labels: Int32Array): boolean {
-    const mem = memoryBuffer();
-    if (!mem || labels.buffer === mem) { this.held = false; return false; }
-    const img = this.images(labels.length);
-    viewI32(img.prev, labels.length).set(labels);
+    const mem = wasmMemoryBuffer();
+    this.held = false;
+    if (!mem || labels.buffer === mem) return false;
+    this.workspace(labels.length).loadPrevious(labels);
     this.held = true;
     return true;
   }
 
   /** The held previous image, copied into `into` (of its length). */
   copyHeld(into: Int32Array): void {
-    if (!this.held || !this.img || into.length !== this.img.n) throw new Error("overlap counter: no previous label image of that size is held");
-    into.set(viewI32(this.img.prev, this.img.n));
+    if (!this.held || !this.ws || into.length !== this.ws.pixels) throw new Error("overlap counter: no previous label image of that size is held");
+    this.ws.copyPrevious(into);
   }
 
   /** `count` with the held image as `prev` (see `holds`); a count that throws keeps it held. */
@@ -110,11 +81,12 @@ export class OverlapCounter {
     cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
     prevCount: number, curCount: number, where: string, sizeHint = prevCount + curCount,
   ): number {
-    if (!this.held || !this.img) throw new Error(`${where}: the overlap counter holds no previous label image`);
-    if (cur.length !== this.img.n) throw new Error(`${where}: the label images have ${this.img.n} and ${cur.length} pixels`);
-    const mem = memoryBuffer();
-    if (cur.buffer === mem) {
-      const prev = viewI32(this.img.prev, this.img.n).slice();
+    const ws = this.ws;
+    if (!this.held || !ws) throw new Error(`${where}: the overlap counter holds no previous label image`);
+    if (cur.length !== ws.pixels) throw new Error(`${where}: the label images have ${ws.pixels} and ${cur.length} pixels`);
+    if (cur.buffer === wasmMemoryBuffer()) {
+      const prev = new Int32Array(ws.pixels);
+      ws.copyPrevious(prev);
       const r = this.countLoop(prev, cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
       this.held = false; // (the loop leaves `cur` where it is)
       return r;
@@ -122,64 +94,46 @@ export class OverlapCounter {
     return this.countWasm(cur, prevPhase, curPhase, prevCount, curCount, where, sizeHint);
   }
 
-  /** Returns the Wasm buffers to the heap (the counter stays usable). */
+  /** Slots in the table of the last count (a power of two, at least twice its pairs). */
+  capacity(): number {
+    return this.lastPath === "wasm" ? this.ws!.capacity : this.keyPrev.length;
+  }
+
+  /** Returns the Wasm memory to the heap (the counter stays usable; it holds no image then). */
   dispose(): void {
-    if (this.img) { wasmFree(this.img.prev); wasmFree(this.img.cur); }
-    this.img = undefined;
+    this.ws?.dispose();
+    this.ws = undefined;
     this.held = false;
-    for (const b of Object.values(this.blocks)) b.free();
   }
 
-  /** Both label images in Wasm memory for frames of n pixels (the kernels are loaded). */
-  private images(n: number) {
-    if (this.img?.n === n) return this.img;
-    if (this.img) { wasmFree(this.img.prev); wasmFree(this.img.cur); }
-    this.held = false;
-    this.img = { n, prev: wasmAlloc(4 * n + 16), cur: wasmAlloc(4 * n + 16) };
-    return this.img;
+  private workspace(n: number): OverlapWorkspace {
+    if (this.ws?.pixels !== n) {
+      this.ws?.dispose();
+      this.ws = new OverlapWorkspace(n);
+    }
+    return this.ws;
   }
 
-  /** The kernel on img.prev (already there) and `cur`; then `cur` becomes the held previous image. */
+  /** The kernel on the workspace's previous image and `cur`; then `cur` is held as the previous image. */
   private countWasm(
     cur: Int32Array, prevPhase: Uint8Array, curPhase: Uint8Array,
     prevCount: number, curCount: number, where: string, sizeHint: number, prev?: Int32Array,
   ): number {
-    const img = this.img!, n = img.n, b = this.blocks;
-    // Phase columns indexed by label, padded with values that match nothing on the other side.
-    const pph = b.pph.at(prevCount + 1), cph = b.cph.at(curCount + 1);
-    const memo = b.memo.at(8 * (prevCount + 1));
-    let cap = this.wasmCap;
-    while (cap < 4 * sizeHint) cap *= 2;
-    let table = b.table.at(12 * cap), out = b.out.at(6 * cap);
-    const pv = viewU8(pph, prevCount + 1), cv = viewU8(cph, curCount + 1);
-    pv.fill(254); cv.fill(255);
-    pv.set(prevPhase.subarray(0, prevCount + 1));
-    cv.set(curPhase.subarray(0, curCount + 1));
-    viewI32(img.cur, n).set(cur);
-    const k = kernels() as KernelExports & OverlapKernelExports;
-    let r: number;
-    while ((r = k.overlapPairs(img.prev, img.cur, n, prevCount, curCount, pph, cph, table, cap, memo, out, out + 2 * cap, out + 4 * cap)) === -1) {
-      cap *= 2;
-      table = b.table.at(12 * cap);
-      out = b.out.at(6 * cap);
+    const ws = this.ws!;
+    const r = ws.count(cur, prevPhase, curPhase, prevCount, curCount, sizeHint);
+    if ("bad" in r) {
+      const i = r.pixel;
+      if (r.bad === "current") throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
+      throw new Error(`${where}: expected previous labels in 0..${prevCount}, got ${prev ? prev[i] : ws.previousAt(i)} at pixel ${i}`);
     }
-    if (r < -1) {
-      const i = -2 - r;
-      if (i < n) throw new Error(`${where}: expected labels in 0..${curCount} (the domains' count), got ${cur[i]} at pixel ${i}`);
-      const got = prev ? prev[i - n] : viewI32(img.prev, n)[i - n];
-      throw new Error(`${where}: expected previous labels in 0..${prevCount}, got ${got} at pixel ${i - n}`);
-    }
-    this.wasmCap = cap;
     this.lastPath = "wasm";
-    this.reservePairs(r);
-    this.pairPrev.set(viewI32(out, r));
-    this.pairCur.set(viewI32(out + 2 * cap, r));
-    this.pairPixels.set(viewI32(out + 4 * cap, r));
-    this.pairs = r;
-    // This frame's image is the next count's previous one.
-    [img.prev, img.cur] = [img.cur, img.prev];
+    this.reservePairs(r.pairs);
+    this.pairPrev.set(r.prev);
+    this.pairCur.set(r.cur);
+    this.pairPixels.set(r.pixels);
+    this.pairs = r.pairs;
     this.held = true;
-    return r;
+    return r.pairs;
   }
 
   private reservePairs(m: number): void {
@@ -226,11 +180,7 @@ export class OverlapCounter {
     return this.pairs;
   }
 
-  /** Slots in the table of the last count (a power of two, at least twice its pairs). */
-  capacity(): number {
-    return this.lastPath === "wasm" ? this.wasmCap : this.keyPrev.length;
-  }
-  private lastPath: "wasm" | "loop" = "loop";
+
 
   private reset(expected: number): void {
     this.lastPath = "loop";
