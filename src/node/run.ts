@@ -119,6 +119,68 @@ export function fileSha256(path: string): string {
   return h.digest("hex");
 }
 
+// The inputs' SHA-256 hashes are computed by a thread of their own while the first frames are
+// analyzed (a long movie's hash takes seconds); a checkpoint or the run record waits for them.
+const HASH_THREAD = `
+const { workerData } = require("node:worker_threads");
+const { createHash } = require("node:crypto");
+const { openSync, readSync, closeSync } = require("node:fs");
+const status = new Int32Array(workerData.shared, 0, 1);
+const out = new Uint8Array(workerData.shared, 4);
+try {
+  const buf = new Uint8Array(1 << 20);
+  workerData.paths.forEach((path, k) => {
+    const h = createHash("sha256");
+    const fd = openSync(path, "r");
+    try {
+      for (;;) {
+        const n = readSync(fd, buf, 0, buf.length, null);
+        if (n === 0) break;
+        h.update(buf.subarray(0, n));
+      }
+    } finally {
+      closeSync(fd);
+    }
+    out.set(h.digest(), 32 * k);
+  });
+  Atomics.store(status, 0, 1);
+} catch {
+  Atomics.store(status, 0, 2);
+}
+Atomics.notify(status, 0);
+`;
+
+/**
+ * SHA-256 of each file from a worker thread; `wait()` blocks until they are known. Where the
+ * thread failed (a file it could not read), or gave no answer in time, the files are hashed
+ * in this thread, so that a read error is thrown here with its file named.
+ */
+class BackgroundHashes {
+  private readonly status: Int32Array;
+  private readonly digests: Uint8Array;
+  private hashes: string[] | undefined;
+  private readonly patienceMs: number;
+  constructor(private readonly paths: string[], bytes: number) {
+    const shared = new SharedArrayBuffer(4 + 32 * paths.length);
+    this.status = new Int32Array(shared, 0, 1);
+    this.digests = new Uint8Array(shared, 4);
+    // (at 20 MB/s, and 30 s on top: far beyond a disk's pace, so only a stuck thread is waited out)
+    this.patienceMs = 30_000 + bytes / 20_000;
+    const w = new Worker(HASH_THREAD, { eval: true, workerData: { paths, shared } });
+    w.unref();
+    w.on("error", () => { Atomics.store(this.status, 0, 2); });
+  }
+  wait(): string[] {
+    if (this.hashes) return this.hashes;
+    const until = performance.now() + this.patienceMs;
+    while (Atomics.load(this.status, 0) === 0 && performance.now() < until) Atomics.wait(this.status, 0, 0, 200);
+    this.hashes = Atomics.load(this.status, 0) === 1
+      ? this.paths.map((_p, k) => Buffer.from(this.digests.subarray(32 * k, 32 * k + 32)).toString("hex"))
+      : this.paths.map(fileSha256);
+    return this.hashes;
+  }
+}
+
 class PartialFile {
   private fd: number;
   private position = 0;
@@ -204,25 +266,38 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
   const range = checkRange(config, total);
   const out = resolve(config.out);
   mkdirSync(out, { recursive: true });
-  const inputs = files.map((path) => ({ path: resolve(path), bytes: statSync(path).size, sha256: fileSha256(path) }));
+  const sizes = files.map((path) => statSync(path).size);
+  // A fresh run hashes its inputs in the background; a resumed one needs the hashes now (to
+  // check that the inputs are those of the interrupted run).
+  const hashing = config.resume ? undefined : new BackgroundHashes(files, sizes.reduce((a, b) => a + b, 0));
+  let inputs: Array<{ path: string; bytes: number; sha256: string }> | undefined;
+  const inputRecords = () => {
+    if (!inputs) {
+      const hashes = hashing ? hashing.wait() : files.map(fileSha256);
+      inputs = files.map((path, k) => ({ path: resolve(path), bytes: sizes[k]!, sha256: hashes[k]! }));
+    }
+    return inputs;
+  };
+  const backgroundSha = config.backgroundFile ? fileSha256(config.backgroundFile) : null;
   const jobOptions: FrameJobOptions = {
     ...config.options,
     ...(config.tracking ? { tracking: true } : {}),
     ...(config.overlay ? { overlay: config.overlay } : {}),
     ...(config.spectra ? { spectra: config.spectra } : {}),
   };
-  const signature = createHash("sha256").update(JSON.stringify({
-    version: VERSION, inputs: inputs.map((i) => [i.path, i.bytes, i.sha256]), options: jobOptions,
+  let signatureHex: string | undefined;
+  const signature = () => (signatureHex ??= createHash("sha256").update(JSON.stringify({
+    version: VERSION, inputs: inputRecords().map((i) => [i.path, i.bytes, i.sha256]), options: jobOptions,
     tracking: config.tracking ?? null, fields: config.fields ? Array.from(config.fields.values) : null,
-    background: config.backgroundFile ? fileSha256(config.backgroundFile) : null,
+    background: backgroundSha,
     ...(sharded ? { range, shard: config.shard ?? null } : {}),
-  })).digest("hex");
+  })).digest("hex"));
   const progressPath = join(out, "run.progress.json");
   const trackerPath = join(out, "run.tracker.bin");
   let checkpoint: Checkpoint | undefined;
   if (config.resume && existsSync(progressPath)) {
     checkpoint = JSON.parse(readFileSync(progressPath, "utf8")) as Checkpoint;
-    if (checkpoint.signature !== signature) {
+    if (checkpoint.signature !== signature()) {
       throw new Error(`${progressPath}: the interrupted run had other inputs, options or version; cannot resume (start again without --resume)`);
     }
   } else if (config.resume) {
@@ -261,7 +336,7 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     for (const name of wanted) { files_[name]!.sync(); bytes[name] = files_[name]!.size(); }
     if (tracker) writeFileAtomic(trackerPath, tracker.snapshot());
     if (lastBoundary) { writeFileAtomic(join(out, SHARD_FILES.last), encodeBoundaryFrame(lastBoundary)); lastBoundary = undefined; }
-    const cp: Checkpoint = { signature, framesDone: done, bytes, failed, headerDone };
+    const cp: Checkpoint = { signature: signature(), framesDone: done, bytes, failed, headerDone };
     writeFileAtomic(progressPath, JSON.stringify(cp) + "\n");
   };
 
@@ -361,8 +436,8 @@ export async function runAnalysis(config: RunConfig): Promise<RunSummary> {
     }
     writeFileAtomic(join(out, "run.json"), JSON.stringify({
       tool: "domtopo", version: VERSION, command: "analyze", finished: new Date().toISOString(),
-      inputs, frames: total, options: jobOptions,
-      background: config.backgroundFile ? { path: resolve(config.backgroundFile), sha256: fileSha256(config.backgroundFile) } : null,
+      inputs: inputRecords(), frames: total, options: jobOptions,
+      background: config.backgroundFile ? { path: resolve(config.backgroundFile), sha256: backgroundSha } : null,
       field: config.fields ? { unit: config.fields.unit, source: config.fields.source } : null,
       outputs: [...wanted, ...(config.tracking ? ["tracks.csv"] : []), ...(config.overlay ? ["overlays/"] : []), ...(config.spectra ? ["spectra/"] : [])],
       tracking: config.tracking ?? null, failures: failed,
