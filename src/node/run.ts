@@ -6,11 +6,13 @@
 // its record names the range, and with tracking it also leaves the first and last frame's labels
 // and domain columns and its tracker at the end, for merging the shards exactly.
 import { createHash } from "node:crypto";
+import * as nodeCrypto from "node:crypto";
+import * as nodeFs from "node:fs";
 import { Worker } from "node:worker_threads";
 import { availableParallelism } from "node:os";
 import {
   closeSync, existsSync, fstatSync, fsyncSync, ftruncateSync, mkdirSync, openSync, readFileSync,
-  readSync, renameSync, statSync, unlinkSync, writeSync,
+  renameSync, statSync, unlinkSync, writeSync,
 } from "node:fs";
 import { join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -102,47 +104,41 @@ interface Checkpoint {
   headerDone: boolean;
 }
 
-/** SHA-256 of a file, read in 1 MiB blocks. */
-export function fileSha256(path: string): string {
-  const h = createHash("sha256");
-  const fd = openSync(path, "r");
+/**
+ * SHA-256 of a file, read in 1 MiB blocks, as raw bytes. Self-contained (its modules come as
+ * arguments): the hashing thread runs this same function from its source text.
+ */
+function sha256Digest(path: string, fs: typeof import("node:fs"), crypto: typeof import("node:crypto")): Uint8Array {
+  const h = crypto.createHash("sha256");
+  const fd = fs.openSync(path, "r");
   try {
     const buf = new Uint8Array(1 << 20);
     for (;;) {
-      const n = readSync(fd, buf, 0, buf.length, null);
+      const n = fs.readSync(fd, buf, 0, buf.length, null);
       if (n === 0) break;
       h.update(buf.subarray(0, n));
     }
   } finally {
-    closeSync(fd);
+    fs.closeSync(fd);
   }
-  return h.digest("hex");
+  return h.digest();
+}
+
+/** SHA-256 of a file (hex). */
+export function fileSha256(path: string): string {
+  return Buffer.from(sha256Digest(path, nodeFs, nodeCrypto)).toString("hex");
 }
 
 // The inputs' SHA-256 hashes are computed by a thread of their own while the first frames are
 // analyzed (a long movie's hash takes seconds); a checkpoint or the run record waits for them.
 const HASH_THREAD = `
 const { workerData } = require("node:worker_threads");
-const { createHash } = require("node:crypto");
-const { openSync, readSync, closeSync } = require("node:fs");
+const sha256Digest = ${sha256Digest.toString()};
 const status = new Int32Array(workerData.shared, 0, 1);
 const out = new Uint8Array(workerData.shared, 4);
 try {
-  const buf = new Uint8Array(1 << 20);
-  workerData.paths.forEach((path, k) => {
-    const h = createHash("sha256");
-    const fd = openSync(path, "r");
-    try {
-      for (;;) {
-        const n = readSync(fd, buf, 0, buf.length, null);
-        if (n === 0) break;
-        h.update(buf.subarray(0, n));
-      }
-    } finally {
-      closeSync(fd);
-    }
-    out.set(h.digest(), 32 * k);
-  });
+  const fs = require("node:fs"), crypto = require("node:crypto");
+  workerData.paths.forEach((path, k) => out.set(sha256Digest(path, fs, crypto), 32 * k));
   Atomics.store(status, 0, 1);
 } catch {
   Atomics.store(status, 0, 2);
@@ -155,7 +151,9 @@ Atomics.notify(status, 0);
  * thread failed (a file it could not read), or gave no answer in time, the files are hashed
  * in this thread, so that a read error is thrown here with its file named.
  */
-class BackgroundHashes {
+export class BackgroundHashes {
+  /** Whether the hashes came from the thread (else from this one). */
+  fromThread = false;
   private readonly status: Int32Array;
   private readonly digests: Uint8Array;
   private hashes: string[] | undefined;
@@ -174,7 +172,8 @@ class BackgroundHashes {
     if (this.hashes) return this.hashes;
     const until = performance.now() + this.patienceMs;
     while (Atomics.load(this.status, 0) === 0 && performance.now() < until) Atomics.wait(this.status, 0, 0, 200);
-    this.hashes = Atomics.load(this.status, 0) === 1
+    this.fromThread = Atomics.load(this.status, 0) === 1;
+    this.hashes = this.fromThread
       ? this.paths.map((_p, k) => Buffer.from(this.digests.subarray(32 * k, 32 * k + 32)).toString("hex"))
       : this.paths.map(fileSha256);
     return this.hashes;

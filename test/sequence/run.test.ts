@@ -3,7 +3,7 @@ import { mkdtempSync, readFileSync, writeFileSync, existsSync, appendFileSync, c
 import { createHash } from "node:crypto";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { runAnalysis } from "../../src/node/run";
+import { runAnalysis, BackgroundHashes } from "../../src/node/run";
 import { demoSweep } from "../../src/demo/sweep";
 import { encodeNpy } from "../../src/io/npy";
 import { fieldsFromList } from "../../src/io/fields";
@@ -44,6 +44,17 @@ describe("movie runs", () => {
     expect(record.field.unit).toBe("mT");
     expect(existsSync(join(out, "tracks.csv"))).toBe(true);
     expect(existsSync(join(out, "run.progress.json"))).toBe(false);
+  });
+
+  it("hashes the inputs in a thread of its own, to the digests of Node's crypto", () => {
+    const other = join(dir, "other.bin");
+    writeFileSync(other, Uint8Array.from({ length: 3_000_000 }, (_v, i) => (i * 7919) & 255));
+    const h = new BackgroundHashes([stack, other], 3_000_000);
+    const want = [stack, other].map((f) => createHash("sha256").update(readFileSync(f)).digest("hex"));
+    expect(h.wait()).toEqual(want);
+    expect(h.fromThread).toBe(true);
+    // A file that cannot be read: hashed again in this thread, which names it.
+    expect(() => new BackgroundHashes([join(dir, "missing.npy")], 0).wait()).toThrow(/missing\.npy/);
   });
 
   it("refuses to resume when an input changed after the interruption (same size, other bytes)", async () => {

@@ -9,6 +9,17 @@ import { trackMovie, type Canvas, type Movie } from "./movie";
 import { shift, randomFrame } from "../helpers/grid";
 
 /** A maze thresholded at slowly rising levels: domains shrink, split, vanish and merge. */
+/** Each frame's labels (tracked in a row) and each label's phase (index 0 and unused ids: 255). */
+function labelsAndPhases(frames: Array<{ data: ArrayLike<number> }>): { labels: Int32Array[]; phases: Uint8Array[] } {
+  const labels = trackMovie(frames as never).labels as Int32Array[];
+  const phases = labels.map((l, k) => {
+    const p = new Uint8Array(Math.max(...l) + 1).fill(255);
+    for (let i = 0; i < l.length; i++) p[l[i]!] = frames[k]!.data[i]!;
+    return p;
+  });
+  return { labels, phases };
+}
+
 function risingLevels(seed: number, size: number, levels: number[], period = 10): Canvas[] {
   const f = gaussianRandomField({ width: size, height: size, period, seed });
   return levels.map((u) => ({ width: size, height: size, data: f.data.map((v) => (v > u ? 1 : 0)) as unknown as Uint8Array }))
@@ -149,13 +160,7 @@ describe("overlap counting", () => {
     // the TS loop (the kernel's buffers could detach them). Three frames in a row, one counter
     // for each path.
     const frames = [21, 22, 23].map((seed) => randomFrame(seed, 97, 61, 0.5));
-    const m = trackMovie(frames);
-    const labels = m.labels as Int32Array[];
-    const phases = labels.map((l, k) => {
-      const p = new Uint8Array(Math.max(...l) + 1).fill(255);
-      for (let i = 0; i < l.length; i++) p[l[i]!] = frames[k]!.data[i]!;
-      return p;
-    });
+    const { labels, phases } = labelsAndPhases(frames);
     const kernel = new OverlapCounter(), loop = new OverlapCounter();
     const ptr = wasmAlloc(8 * labels[0]!.length);
     try {
@@ -185,13 +190,7 @@ describe("overlap counting", () => {
     // previous image given, on four frames; a frame with a bad label throws and the held image
     // stays the one before it (common practice: a failed step leaves the state as it was).
     const frames = [31, 32, 33, 34].map((seed) => randomFrame(seed, 83, 67, 0.5));
-    const m = trackMovie(frames);
-    const labels = m.labels as Int32Array[];
-    const phases = labels.map((l, k) => {
-      const p = new Uint8Array(Math.max(...l) + 1).fill(255);
-      for (let i = 0; i < l.length; i++) p[l[i]!] = frames[k]!.data[i]!;
-      return p;
-    });
+    const { labels, phases } = labelsAndPhases(frames);
     const K = (k: number) => phases[k]!.length - 1;
     const pairs = (c: OverlapCounter, n: number) => Array.from({ length: n }, (_, e) => `${c.pairPrev[e]},${c.pairCur[e]}:${c.pairPixels[e]}`).sort();
     const next = new OverlapCounter(), given = new OverlapCounter();
