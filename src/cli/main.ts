@@ -51,7 +51,7 @@ Usage: domtopo <command> [options]
 
 Commands:
   demo                  generate the built-in synthetic field sweep and analyze every frame
-  analyze <files...>    analyze PNG frames (one row per frame)
+  analyze <files...>    analyze frames: PNG, APNG, TIFF stacks, .npy, folders (one row per frame)
   loop <frames.csv>     loop metrics of a per-frame table (coercive field, remanence, area, ...)
   forc <frames.csv>     FORC distribution of reversal curves in a per-frame table
   report <run folder>   one self-contained HTML report of a run folder
@@ -59,7 +59,8 @@ Commands:
   help [command]        show help for a command
 
 Run 'domtopo <command> --help' for the options of a command.
-Exit codes: 0 done, 1 the run failed (unreadable input, analysis error), 2 bad command line.`,
+Exit codes: 0 done, 1 the run failed (unreadable input, analysis error), 2 bad command line,
+3 (analyze) the run finished but some frames failed.`,
   demo: `Usage: domtopo demo [options]
 
 Generates an invented field sweep (a Gaussian random field thresholded at levels that follow the
