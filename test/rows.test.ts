@@ -19,7 +19,8 @@ describe("table cells", () => {
       const k = Math.floor(rand() * 22) - 6, n = 1e9 + Math.floor(rand() * 9e9);
       const tie = (n + 0.5) / 10 ** (9 - k);
       const near = 10 ** k * (1 + (rand() - 0.5) * 1e-9);
-      for (const x of [tie, tie * (1 + 2 ** -52), tie * (1 - 2 ** -52), near, 10 ** k - 10 ** (k - 10) / 2]) values.push(x, -x);
+      const below = 10 ** k * (1 - 2 ** -52), above = 10 ** k * (1 + 2 ** -52);
+      for (const x of [tie, tie * (1 + 2 ** -52), tie * (1 - 2 ** -52), near, 10 ** k - 10 ** (k - 10) / 2, below, above]) values.push(x, -x);
     }
     let checked = 0;
     for (const v of values) {

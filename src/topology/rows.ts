@@ -171,7 +171,7 @@ function fixedDigits(v: number): string | undefined {
     const fl = Math.floor(scaled), fr = scaled - fl;
     if (fr > 0.4999 && fr < 0.5001) return undefined;
     const r = fr > 0.5 ? fl + 1 : fl;
-    if (r >= 1e10) return undefined;
+    if (r >= 1e10 || r < 1e9) return undefined; // (a zero count off by one near a power of ten)
     // Ten digits as two halves of five (numbers below 2^31 print fastest).
     const hi = Math.floor(r / 1e5);
     out = `0.${ZEROS.slice(0, z)}${trimZeros(String(hi) + padDigits(r - hi * 1e5, 5))}`;
