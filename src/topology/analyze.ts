@@ -125,7 +125,7 @@ export class FrameAnalyzer {
   private skeletonWs: SkeletonWorkspace | undefined;
   private lastSkeleton: SkeletonAnalysis | undefined;
   private lastMaps: { phase: Uint8Array; labels: Int32Array } | undefined;
-  private maps: { phase: Uint8Array; labels: Int32Array; skeleton: Uint8Array; distance: Float32Array } | undefined;
+  private maps: { phase: Uint8Array } | undefined;
   private hexWs: HexWorkspace | undefined;
   private lastGrid: "square" | "hex" = "square";
 
@@ -272,26 +272,25 @@ export class FrameAnalyzer {
   }
 
   private skeletonsOf(o: ResolvedFrameOptions, rule: RuleCode): FrameSkeletons {
-    // Copies (the skeleton kernels share Wasm memory with the labeling workspace) into buffers
-    // kept for the frame shape: they hold the last frame for overlays and the spectrum.
+    // The phase map copied (the skeleton kernels share Wasm memory with the labeling workspace)
+    // into a buffer kept for the frame shape: it holds the last frame for overlays and the
+    // spectrum. The labels are read where the labeling left them (until the next frame), and
+    // the skeleton and distance map stay in the skeleton workspace.
     const n = this.width * this.height;
-    const m = (this.maps ??= {
-      phase: new Uint8Array(n), labels: new Int32Array(n), skeleton: new Uint8Array(n), distance: new Float32Array(n),
-    });
+    const m = (this.maps ??= { phase: new Uint8Array(n) });
     const phase = m.phase;
     phase.set(this.ws.phase());
-    const labels = m.labels;
-    labels.set(this.ws.labels());
     const quads = rule === 2 ? this.ws.quads()!.slice() : undefined;
     this.skeletonWs ??= new SkeletonWorkspace(this.width, this.height);
     const a = analyzeSkeletons(
-      { width: this.width, height: this.height, phase, labels, count: this.ws.domainCount },
+      { width: this.width, height: this.height, phase, labels: this.ws.labels(), count: this.ws.domainCount },
       { ...(o.skeleton as object), boundary: o.boundary, connectivity: o.connectivity, pixelSize: o.pixelSize, ...(quads ? { quads } : {}) },
       this.skeletonWs,
-      { skeleton: m.skeleton, distance: m.distance },
+      "views",
     );
     this.lastSkeleton = a;
-    this.lastMaps = { phase, labels };
+    const ws = this.ws;
+    this.lastMaps = { phase, get labels() { return ws.labels(); } };
     const out: FrameSkeletons = { options: a.options, columns: a.columns, up: a.up, down: a.down };
     if (o.keepLabels) lazyPruned(out, () => a.pruned); // made when read (as above)
     return out;

@@ -2,6 +2,7 @@
 // the per-domain columns and kinds, and the per-phase summaries.
 import { SkeletonWorkspace, type ConnectivityRule } from "../wasm/skeleton";
 import { kernels } from "../wasm/instance";
+import { viewI32 } from "../wasm/heap";
 import { skeletonGraph, prunedSkeletonLater, type SkeletonGraph } from "./skeleton";
 import { classifyDomains, summarizePhase, type SkeletonColumns, type PhaseSkeletonSummary } from "./classify";
 
@@ -98,12 +99,13 @@ function bad(name: string, v: unknown): never {
 
 /**
  * The frame's phase map and labels, copied where they are views into Wasm memory (the skeleton
- * workspaces may grow it, which would detach them), after checking their length.
+ * workspaces may grow it, which would detach them), after checking their length; with
+ * `labelView`, labels in Wasm memory stay the view they are (the caller reads them by offset).
  */
-export function frameMaps(frame: LabeledFrame, cells: "pixels" | "sites"): { phase: Uint8Array; labels: Int32Array; n: number } {
+export function frameMaps(frame: LabeledFrame, cells: "pixels" | "sites", labelView = false): { phase: Uint8Array; labels: Int32Array; n: number } {
   const mem = kernels().memory.buffer;
   const phase = frame.phase.buffer === mem ? frame.phase.slice() : frame.phase;
-  const labels = frame.labels.buffer === mem ? frame.labels.slice() : frame.labels;
+  const labels = frame.labels.buffer === mem && !labelView ? frame.labels.slice() : frame.labels;
   const n = frame.width * frame.height;
   if (phase.length !== n || labels.length !== n) {
     throw new Error(`frame: expected phase and labels of ${frame.width} x ${frame.height} = ${n} ${cells}, got ${phase.length} and ${labels.length}`);
@@ -128,28 +130,43 @@ export function skeletonWorkspace(width: number, height: number): SkeletonWorksp
  */
 export function analyzeSkeletons(
   frame: LabeledFrame, options: SkeletonOptions = {}, workspace?: SkeletonWorkspace,
-  /** Buffers of the frame's size to copy the skeleton and distance map into (the caller owns them; else new arrays). */
-  into?: { skeleton: Uint8Array; distance: Float32Array },
+  /**
+   * Buffers of the frame's size to copy the skeleton and distance map into (the caller owns
+   * them; else new arrays), or 'views': `skeleton` and `distance` read the workspace itself
+   * (fresh views on each read, valid until its next run; for a caller that keeps the workspace).
+   */
+  into?: { skeleton: Uint8Array; distance: Float32Array } | "views",
 ): SkeletonAnalysis {
   const o = resolveSkeletonOptions(options);
   const { width, height, count } = frame;
-  const { phase, labels, n } = frameMaps(frame, "pixels");
+  // Labels that are already in Wasm memory (a labeling workspace's) are read there by offset.
+  const labelsAt = frame.labels.buffer === kernels().memory.buffer ? frame.labels.byteOffset : -1;
+  const { phase, labels, n } = frameMaps(frame, "pixels", labelsAt >= 0);
   const rule: ConnectivityRule = o.connectivity === 8 ? 0 : o.connectivity === 4 ? 1 : 2;
   const periodicX = o.boundary === "periodic" || o.boundary === "periodic-x";
   const periodicY = o.boundary === "periodic" || o.boundary === "periodic-y";
   const ws = workspace ?? skeletonWorkspace(width, height);
   const r = ws.run(phase, { periodicX, periodicY, rule, quads: options.quads, order: o.thinning });
-  const reuse = into && into.skeleton.length === n && into.distance.length === n;
-  const skeleton = reuse ? into.skeleton : r.skeleton.slice(), distance = reuse ? into.distance : r.distance.slice();
-  if (reuse) { skeleton.set(r.skeleton); distance.set(r.distance); }
+  const views = into === "views";
+  const reuse = !views && into !== undefined && into.skeleton.length === n && into.distance.length === n;
+  let skeleton = r.skeleton, distance = r.distance;
+  if (reuse) { into.skeleton.set(r.skeleton); into.distance.set(r.distance); skeleton = into.skeleton; distance = into.distance; }
+  else if (!views) { skeleton = r.skeleton.slice(); distance = r.distance.slice(); }
   // Area, phase and largest distance of every domain, run by run of one label (Wasm); the labels
-  // stay in the workspace and the adjacency carries them by skeleton index.
+  // stay in the workspace (or where they are) and the adjacency carries them by skeleton index.
   const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
-  const bad = ws.domainTotals(labels, count, area, maxD, domainPhase);
-  if (bad >= 0) throw new Error(`frame.labels: expected ids 1..${count}, got ${labels[bad]} at pixel ${bad}`);
+  const bad = labelsAt >= 0
+    ? ws.domainTotalsAt(labelsAt, count, area, maxD, domainPhase)
+    : ws.domainTotals(labels, count, area, maxD, domainPhase);
+  if (bad >= 0) {
+    const got = labelsAt >= 0 ? viewI32(labelsAt, n)[bad] : labels[bad];
+    throw new Error(`frame.labels: expected ids 1..${count}, got ${got} at pixel ${bad}`);
+  }
   const compactAdjacency = ws.compactNeighbours();
+  // (a fresh view of labels read by offset: the workspace's buffers may have grown the memory)
+  const graphLabels = labelsAt >= 0 ? viewI32(labelsAt, n) : labels;
   const graph = skeletonGraph(
-    { width, height, phase, labels, count, skeleton, distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
+    { width, height, phase, labels: graphLabels, count, skeleton: views ? ws.lastRun().skeleton : skeleton, distance: views ? ws.lastRun().distance : distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
@@ -159,6 +176,11 @@ export function analyzeSkeletons(
     down: summarizePhase(columns, domainPhase, area, 0, n, o.pixelSize),
     skeleton, pruned: undefined as unknown as Uint8Array, distance, graph,
   };
+  if (views) {
+    // (fresh views on each read: the workspace's memory may have grown since)
+    Object.defineProperty(out, "skeleton", { enumerable: true, get: () => ws.lastRun().skeleton });
+    Object.defineProperty(out, "distance", { enumerable: true, get: () => ws.lastRun().distance });
+  }
   // The pruned skeleton as the graph is now, its pixels made on first read (assignable).
   lazyPruned(out, prunedSkeletonLater(graph));
   return out;

@@ -54,8 +54,8 @@ export class SkeletonWorkspace {
   private disposed = false;
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
   private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number; label: number } | undefined;
-  /** The candidate list holds the labels given to domainTotals since the last run. */
-  private labelsLoaded = false;
+  /** Where the labels given to domainTotals since the last run are in Wasm memory (0: none). */
+  private labelsAt = 0;
   private lastGeometry: ThinGeometry | undefined;
   private totals: { ptr: number; capacity: number } | undefined;
 
@@ -106,7 +106,7 @@ export class SkeletonWorkspace {
       : geometry.rule === 2 ? k.thinPhase(1) + k.thinPhase(0) : k.thinBits(this.bits);
     k.thinFinish(n);
     this.lastGeometry = geometry;
-    this.labelsLoaded = false;
+    this.labelsAt = 0;
     return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n), blocksLeft };
   }
 
@@ -144,7 +144,7 @@ export class SkeletonWorkspace {
     const k = kernels() as K & SkeletonGraphKernelExports;
     k.setGeometry(width, height, g.periodicX ? 1 : 0, g.periodicY ? 1 : 0, g.rule);
     k.setBuffers(this.ph, 0, 0, this.qm);
-    const lab = this.labelsLoaded ? this.cand : 0;
+    const lab = this.labelsAt;
     const count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
     const out: CompactSkeletonNeighbours = { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
     if (lab) out.label = c.label;
@@ -161,21 +161,37 @@ export class SkeletonWorkspace {
     if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
     const n = this.width * this.height;
     if (labels.length !== n) throw new RangeError(`domtopo: labels have ${labels.length} pixels, expected ${n}`);
+    // The candidate list is free after a run: it takes the labels.
+    viewI32(this.cand, n).set(labels);
+    return this.domainTotalsAt(this.cand, count, area, maxDistance, domainPhase);
+  }
+
+  /**
+   * domainTotals of labels that are already in Wasm memory at byte offset `labelsPtr` (n i32,
+   * e.g. a labeling workspace's), read there; they must stay there until the next run.
+   */
+  domainTotalsAt(labelsPtr: number, count: number, area: Float64Array, maxDistance: Float64Array, domainPhase: Uint8Array): number {
+    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
+    const n = this.width * this.height;
     if (!this.totals || this.totals.capacity < count) {
       if (this.totals) wasmFree(this.totals.ptr);
       const capacity = Math.max(64, 2 * count);
       this.totals = { ptr: wasmAlloc(17 * capacity + 16), capacity };
     }
     const k = kernels() as K & SkeletonGraphKernelExports;
-    // The candidate list is free after a run: it takes the labels.
-    viewI32(this.cand, n).set(labels);
-    this.labelsLoaded = true;
+    this.labelsAt = labelsPtr;
     const t = this.totals, cap = t.capacity;
-    const bad = k.domainTotals(this.cand, this.ph, this.dist, n, count, t.ptr, t.ptr + 8 * cap, t.ptr + 16 * cap);
+    const bad = k.domainTotals(labelsPtr, this.ph, this.dist, n, count, t.ptr, t.ptr + 8 * cap, t.ptr + 16 * cap);
     area.set(viewF64(t.ptr, count));
     maxDistance.set(viewF64(t.ptr + 8 * cap, count));
     domainPhase.set(viewU8(t.ptr + 16 * cap, count));
     return bad;
+  }
+
+  /** The skeleton and distance map of the last run as fresh views (valid until the next run). */
+  lastRun(): { skeleton: Uint8Array; distance: Float32Array } {
+    const n = this.width * this.height;
+    return { skeleton: viewU8(this.sk, n), distance: viewF32(this.dist, n) };
   }
 
   /** Returns the workspace's memory to the heap. */
