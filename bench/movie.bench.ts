@@ -8,6 +8,8 @@ import { mkdtempSync, rmSync, openSync, writeSync, closeSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { Worker } from "node:worker_threads";
+import { execFileSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
 import { runAnalysis, demoSweep } from "../dist/node.js";
 
 const arg = (name: string, d: number) => {
@@ -96,6 +98,21 @@ async function analysisRate(threads: number, frames: number): Promise<number> {
   return (threads * frames) / (Math.max(...ms) / 1000);
 }
 
+// Each movie runs in a process of its own (this script with --measure), so that its peak memory
+// starts from nothing: worker threads of an earlier run leave memory the process keeps.
+const measureArg = process.argv.indexOf("--measure");
+if (measureArg > 0) {
+  const [path, workers, out] = process.argv.slice(measureArg + 1, measureArg + 4) as [string, string, string];
+  rmSync(dir, { recursive: true, force: true });
+  console.log(JSON.stringify(await measure(path, Number(workers), out)));
+  process.exit(0);
+}
+function measureApart(path: string, workers: number, out: string): Awaited<ReturnType<typeof measure>> {
+  const stdout = execFileSync(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url), "--measure", path, String(workers), out],
+    { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"] });
+  return JSON.parse(stdout.trim().split("\n").pop()!) as Awaited<ReturnType<typeof measure>>;
+}
+
 const half = join(dir, "half.npy"), full = join(dir, "full.npy");
 writeStack(half, Math.floor(FRAMES / 2));
 writeStack(full, FRAMES);
@@ -104,15 +121,14 @@ const rows: string[] = [];
 const results: Record<string, Awaited<ReturnType<typeof measure>>> = {};
 for (const workers of [1, 2]) {
   for (const [name, path] of [["half", half], ["full", full]] as const) {
-    const r = await measure(path, workers, join(dir, `out-${workers}-${name}`));
+    const r = measureApart(path, workers, join(dir, `out-${workers}-${name}`));
     results[`${workers}-${name}`] = r;
     rows.push(`workers ${workers}  ${name === "half" ? Math.floor(FRAMES / 2) : FRAMES} frames  ${r.fps.toFixed(1).padStart(6)} frames/s  ` +
-      `${r.seconds.toFixed(1).padStart(6)} s  peak RSS (the process, workers included) ${r.peakRssMB.toFixed(0)} MB ` +
+      `${r.seconds.toFixed(1).padStart(6)} s  peak RSS (its own process, workers included) ${r.peakRssMB.toFixed(0)} MB ` +
       `(by quarter of the run: ${r.quartersMB.map((q) => q.toFixed(0)).join(", ")})`);
     console.log(rows[rows.length - 1]);
   }
 }
-// (after the movies: the analysis threads' memory would count in their RSS)
 const pairRatios: number[] = [];
 for (let r = 0; r < 5; r++) {
   // (the order alternates, so that a drift of the machine's speed does not favour one side)
@@ -128,5 +144,8 @@ console.log(`frame analysis alone, two threads at once / one thread: ${alone.toF
 const scaling = results["2-full"]!.fps / results["1-full"]!.fps;
 console.log(`scaling 2 workers / 1 worker: ${scaling.toFixed(2)}x (target >= 1.7; the analysis alone in two threads: ${alone.toFixed(2)}x)`);
 console.log(`frames/s per core (1 worker): ${results["1-full"]!.fps.toFixed(1)} (target >= 80)`);
-console.log(`peak RSS, ${FRAMES} vs ${Math.floor(FRAMES / 2)} frames, 1 worker: ${results["1-full"]!.peakRssMB.toFixed(0)} vs ${results["1-half"]!.peakRssMB.toFixed(0)} MB`);
+for (const w of [1, 2]) {
+  console.log(`peak RSS, ${FRAMES} vs ${Math.floor(FRAMES / 2)} frames, ${w} worker${w > 1 ? "s" : ""}: ` +
+    `${results[`${w}-full`]!.peakRssMB.toFixed(0)} vs ${results[`${w}-half`]!.peakRssMB.toFixed(0)} MB`);
+}
 rmSync(dir, { recursive: true, force: true });
