@@ -295,21 +295,18 @@ export function skeletonNeighboursCompact(
       j = i - w - 1; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d += skAt(sk, j, v) & diag;
       j = i + w - 1; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d += skAt(sk, j, v) & diag;
       j = i + w + 1; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d += skAt(sk, j, v) & diag;
-      store<u8>(cdeg + <usize>t, <u8>d);
-      store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
-      sti(ident, t, t);
-      continue;
+    } else {
+      if (xp >= 0) { j = row + xp; store<i32>(base + (<usize>d << 2), (xp > x ? t + 1 : ldi(index, j)) << 3); d += skAt(sk, j, v); }
+      if (ym >= 0) { j = rm + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d += skAt(sk, j, v); }
+      if (xm >= 0) { j = row + xm; store<i32>(base + (<usize>d << 2), ((xm < x ? t - 1 : ldi(index, j)) << 3) | 2); d += skAt(sk, j, v); }
+      if (yp >= 0) { j = rp + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d += skAt(sk, j, v); }
+      // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y); with the
+      // fixed rules, none in the 4-connected phase.
+      if (ym >= 0 && xp >= 0) { j = rm + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 4); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + x)); }
+      if (ym >= 0 && xm >= 0) { j = rm + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + xm)); }
+      if (yp >= 0 && xm >= 0) { j = rp + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, row + xm)); }
+      if (yp >= 0 && xp >= 0) { j = rp + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, i)); }
     }
-    if (xp >= 0) { j = row + xp; store<i32>(base + (<usize>d << 2), (xp > x ? t + 1 : ldi(index, j)) << 3); d += skAt(sk, j, v); }
-    if (ym >= 0) { j = rm + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 1); d += skAt(sk, j, v); }
-    if (xm >= 0) { j = row + xm; store<i32>(base + (<usize>d << 2), ((xm < x ? t - 1 : ldi(index, j)) << 3) | 2); d += skAt(sk, j, v); }
-    if (yp >= 0) { j = rp + x; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 3); d += skAt(sk, j, v); }
-    // Diagonals: NE quad top-left (x, y-1), NW (x-1, y-1), SW (x-1, y), SE (x, y); with the
-    // fixed rules, none in the 4-connected phase.
-    if (ym >= 0 && xp >= 0) { j = rm + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 4); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + x)); }
-    if (ym >= 0 && xm >= 0) { j = rm + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 5); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, rm + xm)); }
-    if (yp >= 0 && xm >= 0) { j = rp + xm; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 6); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, row + xm)); }
-    if (yp >= 0 && xp >= 0) { j = rp + xp; store<i32>(base + (<usize>d << 2), (ldi(index, j) << 3) | 7); d += skAt(sk, j, v) & diag & i32(joinsDiagonal(v, i)); }
     store<u8>(cdeg + <usize>t, <u8>d);
     store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
     sti(ident, t, t);

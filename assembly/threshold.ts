@@ -125,18 +125,12 @@ export function saddleQuads(src: usize, kind: i32, level: f64, invert: bool, qm:
 }
 
 /**
- * Flips every pixel of a domain of phase `phase` whose area (i32 column of count + 1 entries) is
- * below `minArea` into the other phase. Returns the number of pixels flipped.
+ * Flips every pixel of a domain of phase `phase` whose area (i32 column) is below `minArea`
+ * into the other phase. Returns the number of pixels flipped.
  */
-export function absorbSpecks(area: usize, domPhase: usize, count: i32, phase: i32, minArea: i32): i32 {
+export function absorbSpecks(area: usize, domPhase: usize, phase: i32, minArea: i32): i32 {
   const n = W * H;
   let flipped = 0;
-  // No such domain: no pass over the pixels.
-  let any = false;
-  for (let d = 1; d <= count; d++) {
-    if (ldi(domPhase, d) == phase && ldi(area, d) < minArea) { any = true; break; }
-  }
-  if (!any) return 0;
   // Run by run of one label (four pixels a step): one look at the domain's columns per run.
   let i = 0;
   while (i < n) {

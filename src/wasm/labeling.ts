@@ -196,7 +196,7 @@ export class LabelingWorkspace {
   /** Flips the pixels of domains of `phase` smaller than `minArea`; returns pixels flipped. */
   absorb(phase: 0 | 1, minArea: number): number {
     const c = this.columnPtr;
-    return this.k.absorbSpecks(c.get("area")!, c.get("phase")!, this.domainCount, phase, minArea);
+    return this.k.absorbSpecks(c.get("area")!, c.get("phase")!, phase, minArea);
   }
 
   /** Quad pass over the last labeling: Euler contributions, crossings, frame statistics. */
