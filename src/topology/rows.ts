@@ -135,10 +135,8 @@ function slowDigits(v: number): string {
   const s = v.toPrecision(10);
   if (s.includes("e")) return String(Number(s));
   if (!s.includes(".")) return s; // ten digits before the point
-  let end = s.length;
-  while (s.charCodeAt(end - 1) === 48) end--; // '0'
-  if (s.charCodeAt(end - 1) === 46) end--; // '.'
-  return s.slice(0, end);
+  const t = trimZeros(s);
+  return t.charCodeAt(t.length - 1) === 46 ? t.slice(0, -1) : t; // (a bare '.' goes too)
 }
 
 const POW10 = Float64Array.from({ length: 16 }, (_v, k) => 10 ** k);

@@ -165,8 +165,9 @@ export function analyzeSkeletons(
   const compactAdjacency = ws.compactNeighbours();
   // (a fresh view of labels read by offset: the workspace's buffers may have grown the memory)
   const graphLabels = labelsAt >= 0 ? viewI32(labelsAt, n) : labels;
+  const maps = views ? ws.lastRun() : { skeleton, distance };
   const graph = skeletonGraph(
-    { width, height, phase, labels: graphLabels, count, skeleton: views ? ws.lastRun().skeleton : skeleton, distance: views ? ws.lastRun().distance : distance, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
+    { width, height, phase, labels: graphLabels, count, ...maps, periodicX, periodicY, rule, quads: options.quads, compactAdjacency },
     { spurFactor: o.spurFactor, junctionMergeFactor: o.junctionMergeFactor },
   );
   const columns = classifyDomains(graph, count, maxD, { bubbleMaxAspect: o.bubbleMaxAspect, pixelSize: o.pixelSize });
