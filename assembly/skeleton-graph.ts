@@ -354,3 +354,51 @@ export function domainTotals(labels: usize, ph: usize, dist: usize, n: i32, coun
   }
   return -1;
 }
+
+@inline function keepMax(labels: usize, dist: usize, count: i32, maxd: usize, i: i32): bool {
+  const d = load<i32>(labels + (<usize>i << 2)) - 1;
+  if (<u32>d >= <u32>count) return false;
+  const pm = maxd + (<usize>d << 3);
+  const v = <f64>load<f32>(dist + (<usize>i << 2));
+  if (v > load<f64>(pm)) store<f64>(pm, v);
+  return true;
+}
+
+/**
+ * The largest distance to the other phase in every domain (maxd, f64 of count entries), read
+ * only where it can be: a domain's largest value sits at a pixel whose four in-frame neighbours
+ * are not larger (a neighbour of the same phase is in the same domain under every rule, and one
+ * of the other phase makes both distances 1). Interior pixels are tested four at a step, the
+ * frame's rim pixels are all read. Returns the first pixel read whose label is outside
+ * 1..count, or -1 (labels are those of a labeling of this w x h frame; the others are not checked).
+ */
+export function domainMaxima(labels: usize, dist: usize, w: i32, h: i32, count: i32, maxd: usize): i32 {
+  memory.fill(maxd, 0, <usize>count << 3);
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    if (y == 0 || y == h - 1 || w < 3) {
+      for (let x = 0; x < w; x++) if (!keepMax(labels, dist, count, maxd, row + x)) return row + x;
+      continue;
+    }
+    if (!keepMax(labels, dist, count, maxd, row)) return row;
+    let x = 1;
+    const uw = <usize>w << 2;
+    for (; x + 4 < w; x += 4) {
+      const p = dist + (<usize>(row + x) << 2);
+      const c = v128.load(p);
+      const ge = v128.and(
+        v128.and(f32x4.ge(c, v128.load(p - 4)), f32x4.ge(c, v128.load(p + 4))),
+        v128.and(f32x4.ge(c, v128.load(p - uw)), f32x4.ge(c, v128.load(p + uw))),
+      );
+      let m = i32x4.bitmask(ge);
+      while (m != 0) {
+        const i = row + x + <i32>ctz(m);
+        m &= m - 1;
+        if (!keepMax(labels, dist, count, maxd, i)) return i;
+      }
+    }
+    // The rest of the row (its last pixel included) one by one, all read.
+    for (; x < w; x++) if (!keepMax(labels, dist, count, maxd, row + x)) return row + x;
+  }
+  return -1;
+}
