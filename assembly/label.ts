@@ -79,7 +79,8 @@ function scanFixed(): i32 {
           }
         }
       }
-      if (l == 0) { l = fresh(next); next++; }
+      if (l == 0) { l = fresh(next); next++; if (LAREA != 0) sti(LAREA, l, v); }
+      if (LAREA != 0) sti(LAREA, l, ldi(LAREA, l) + ((x1 - x0 + 1) << 1));
       fillRun(row + x0, row + x1, l, n);
       x0 = x1 + 1;
     }
@@ -112,7 +113,8 @@ function scanSaddle(): i32 {
         if (x > 0 && phaseAt(n - 1) == v && joinsDiagonal(v, n - 1)) l = joinInto(l, n - 1);
         if (x + 1 < w && phaseAt(n + 1) == v && joinsDiagonal(v, n)) l = joinInto(l, n + 1);
       }
-      if (l == 0) { l = fresh(next); next++; }
+      if (l == 0) { l = fresh(next); next++; if (LAREA != 0) sti(LAREA, l, v); }
+      if (LAREA != 0) sti(LAREA, l, ldi(LAREA, l) + 2);
       setLabel(i, l);
     }
   }
@@ -131,6 +133,7 @@ export function labelScan(): i32 {
     const p = ldi(PA, l);
     if (p == l) { k++; sti(PA, l, k); } else sti(PA, l, ldi(PA, p));
   }
+  LABELS = n;
   return k;
 }
 
@@ -246,6 +249,113 @@ export function resolvePeriodic(k: i32): i32 {
   let K = 0;
   for (let c = 1; c <= k; c++) {
     if (cfind(c) == c) { K++; sti(CFIN, c, K); }
+  }
+  for (let c = 1; c <= k; c++) {
+    const r = ldi(CQ, c);
+    if (r != c) sti(CFIN, c, ldi(CFIN, r));
+  }
+  return K;
+}
+
+// ---- speck absorption before measuring -----------------------------------------------------
+// With a minimum domain area, the scan also counts each provisional label's pixels (LAREA:
+// 2 x pixels + phase), componentAreas sums them per component (CAREA, CPHASE), and after
+// resolvePeriodic the domains below the limit are flipped into the other phase and joined to
+// its components in place: no second labeling. A flipped pixel joins its 4-neighbours of the
+// new phase (a diagonal pair with a flipped pixel always has a 4-path through the quad as well:
+// the pixel's old 4-neighbours of its old phase were in its own domain and flipped with it).
+// Domain ids stay in order of the smallest component (the first pixel in raster order), as a
+// fresh labeling of the edited phase map numbers them.
+
+let LAREA: usize = 0;  // i32 per provisional label (0: not counted)
+let CAREA: usize = 0;  // i32 per component: pixels
+let CPHASE: usize = 0; // i32 per component: phase (updated when flipped)
+let DMARK: usize = 0;  // i32 per component: domain pixels at roots, -1 on every component of a speck
+
+let LABELS: i32 = 0;    // provisional labels of the last scan
+
+/** Binds the speck buffers: larea (pixels + 1 entries) or 0 to count nothing; the others per component. */
+export function bindSpecks(larea: usize, carea: usize, cphase: usize, dmark: usize): void {
+  LAREA = larea; CAREA = carea; CPHASE = cphase; DMARK = dmark;
+}
+
+/** Pixels and phase of each of the k components of the last scan, from its provisional labels' counts. */
+export function componentAreas(k: i32): void {
+  for (let c = 0; c <= k; c++) sti(CAREA, c, 0);
+  for (let l = 1; l <= LABELS; l++) {
+    const c = ldi(PA, l), a = ldi(LAREA, l);
+    sti(CAREA, c, ldi(CAREA, c) + (a >> 1));
+    sti(CPHASE, c, a & 1);
+  }
+}
+
+/**
+ * After resolvePeriodic (k components, each CQ entry its root): marks every component of the
+ * domains of phase p with fewer than minArea pixels. Returns the number of such domains.
+ */
+export function markSpecks(k: i32, p: i32, minArea: i32): i32 {
+  for (let c = 0; c <= k; c++) sti(DMARK, c, 0);
+  for (let c = 1; c <= k; c++) { const r = ldi(CQ, c); sti(DMARK, r, ldi(DMARK, r) + ldi(CAREA, c)); }
+  let count = 0;
+  // Roots are the smallest component of their domain: each root is seen before its members.
+  for (let c = 1; c <= k; c++) {
+    const r = ldi(CQ, c);
+    if (r == c) {
+      if (ldi(CPHASE, c) == p && ldi(DMARK, c) < minArea) { sti(DMARK, c, -1); count++; }
+    } else sti(DMARK, c, ldi(DMARK, r) == -1 ? -1 : 0);
+  }
+  return count;
+}
+
+/** Joins the component of pixel i (phase q) with that of pixel j at lattice shift (tx, ty) when j is of phase q. */
+@inline function joinFlipped(c: i32, q: i32, j: i32, tx: i32, ty: i32): void {
+  if (phaseAt(j) == q) cunite(c, ldi(PA, labelAt(j)), tx, ty);
+}
+
+/**
+ * Flips the pixels of the components markSpecks marked (phase p) into phase 1 - p, joins them
+ * to their 4-neighbours of that phase, and renumbers the domains 1..K in order of their
+ * smallest component. Returns K.
+ */
+export function absorbMarked(k: i32, p: i32): i32 {
+  const w = W, h = H, q = 1 - p;
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    let x0 = 0;
+    while (x0 < w) {
+      // One run of one provisional label (labels of a row change where the phase does).
+      const l = labelAt(row + x0);
+      const lv = i32x4.splat(l);
+      let x1 = x0 + 1;
+      while (x1 + 4 <= w) {
+        const m = i32x4.bitmask(i32x4.eq(v128.load(LB + (<usize>(row + x1) << 2)), lv));
+        if (m != 15) { x1 += <i32>ctz(~m); break; }
+        x1 += 4;
+      }
+      if (x1 + 4 > w) while (x1 < w && labelAt(row + x1) == l) x1++;
+      const c = ldi(PA, l);
+      if (ldi(DMARK, c) == -1) {
+        memory.fill(PH + <usize>(row + x0), <u8>q, <usize>(x1 - x0));
+        sti(CPHASE, c, q);
+        // West of the run's start, east of its end (across a periodic side: shifted by a period).
+        if (x0 > 0) joinFlipped(c, q, row + x0 - 1, 0, 0);
+        else if (PX) joinFlipped(c, q, row + w - 1, -1, 0);
+        if (x1 < w) joinFlipped(c, q, row + x1, 0, 0);
+        else if (PX) joinFlipped(c, q, row, 1, 0);
+        for (let x = x0; x < x1; x++) {
+          if (y > 0) joinFlipped(c, q, row - w + x, 0, 0);
+          else if (PY) joinFlipped(c, q, (h - 1) * w + x, 0, -1);
+          if (y + 1 < h) joinFlipped(c, q, row + w + x, 0, 0);
+          else if (PY) joinFlipped(c, q, x, 0, 1);
+        }
+      }
+      x0 = x1;
+    }
+  }
+  for (let c = 1; c <= k; c++) cfind(c);
+  let K = 0;
+  for (let c = 1; c <= k; c++) {
+    if (ldi(CQ, c) == c) { K++; sti(CFIN, c, K); }
   }
   for (let c = 1; c <= k; c++) {
     const r = ldi(CQ, c);

@@ -1,6 +1,6 @@
 // Samples to phase map (1 = up, 0 = down), histograms for Otsu's level, saddle decisions,
 // and absorption of specks. A sample is up when it is above the level (XOR invert).
-import { W, H, PH, LB, ldi, sti } from "./common";
+import { W, H, PH, ldi, sti } from "./common";
 
 /** u8 samples: up when v >= cut (cut = floor(level) + 1, in 0..256). SIMD, 16 pixels a step. */
 export function thresholdU8(src: usize, n: i32, cut: i32, invert: bool): void {
@@ -122,32 +122,4 @@ export function saddleQuads(src: usize, kind: i32, level: f64, invert: bool, qm:
       store<u8>(qm + <usize>(r0 + x), <u8>out);
     }
   }
-}
-
-/**
- * Flips every pixel of a domain of phase `phase` whose area (i32 column) is below `minArea`
- * into the other phase. Returns the number of pixels flipped.
- */
-export function absorbSpecks(area: usize, domPhase: usize, phase: i32, minArea: i32): i32 {
-  const n = W * H;
-  let flipped = 0;
-  // Run by run of one label (four pixels a step): one look at the domain's columns per run.
-  let i = 0;
-  while (i < n) {
-    const d = ldi(LB, i);
-    const dv = i32x4.splat(d);
-    let j = i + 1;
-    while (j + 4 <= n) {
-      const m = i32x4.bitmask(i32x4.eq(v128.load(LB + (<usize>j << 2)), dv));
-      if (m != 15) { j += <i32>ctz(~m); break; }
-      j += 4;
-    }
-    if (j + 4 > n) while (j < n && ldi(LB, j) == d) j++;
-    if (ldi(domPhase, d) == phase && ldi(area, d) < minArea) {
-      memory.fill(PH + <usize>i, <u8>(1 - phase), <usize>(j - i));
-      flipped += j - i;
-    }
-    i = j;
-  }
-  return flipped;
 }

@@ -158,24 +158,9 @@ export class FrameAnalyzer {
     if (rule === 2) ws.saddleDecisions(kind, level.level, o.invert);
     const px = o.boundary === "periodic" || o.boundary === "periodic-x";
     const py = o.boundary === "periodic" || o.boundary === "periodic-y";
-    ws.label(rule, px, py);
-    const absorbed = { up: 0, down: 0 };
-    if (o.minDomainArea > 1) {
-      // Up specks first, then down specks: flipping a speck only merges it into its
-      // surroundings, so two rounds leave no domain below the limit.
-      for (const p of [1, 0] as const) {
-        const area = ws.i32Column("area"), phase = ws.i32Column("phase");
-        let count = 0;
-        for (let d = 1; d <= ws.domainCount; d++) {
-          if (phase[d] === p && area[d]! < o.minDomainArea) count++;
-        }
-        if (count === 0) continue;
-        ws.absorb(p, o.minDomainArea);
-        if (p === 1) absorbed.up = count; else absorbed.down = count;
-        // Saddle decisions stay those of the samples; re-label the edited phase map.
-        ws.label(rule, px, py);
-      }
-    }
+    // Specks below the minimum area go into the other phase within the labeling itself.
+    ws.label(rule, px, py, o.minDomainArea);
+    const absorbed = ws.absorbed;
     const stats = ws.measureQuads();
     const domains = buildDomainTable(ws, o.pixelSize);
     const [n0, n90, n45, n135] = frameCrossings(stats);

@@ -14,7 +14,10 @@ export interface KernelExports {
   rangeF32(src: number, n: number, out: number): number;
   histogramF32(src: number, n: number, lo: number, hi: number, bins: number, hist: number): void;
   saddleQuads(src: number, kind: number, level: number, invert: number, quads: number): void;
-  absorbSpecks(area: number, domPhase: number, phase: number, minArea: number): number;
+  bindSpecks(labelAreas: number, componentAreas: number, componentPhases: number, marks: number): void;
+  componentAreas(components: number): void;
+  markSpecks(components: number, phase: number, minArea: number): number;
+  absorbMarked(components: number, phase: number): number;
   labelScan(): number;
   bindComponents(q: number, sx: number, sy: number, wf: number, fin: number): void;
   resolvePeriodic(k: number): number;

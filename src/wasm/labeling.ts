@@ -53,6 +53,11 @@ export class LabelingWorkspace {
   private disposed = false;
   /** Number of domains of the last labeling. */
   domainCount = 0;
+  /** Domains of each phase that the last labeling absorbed into the other (see `label`). */
+  absorbed = { up: 0, down: 0 };
+  private labelAreaPtr = 0;
+  private speckPtr = 0;
+  private speckCapacity = 0;
 
   constructor(width: number, height: number) {
     this.width = width;
@@ -168,35 +173,62 @@ export class LabelingWorkspace {
   }
 
   /**
-   * Labels both phases of the phase map in the workspace and measures every domain.
-   * Returns the number of domains K (ids 1..K).
+   * Labels both phases of the phase map in the workspace and measures every domain. With
+   * `minArea` > 1, domains of fewer pixels are first absorbed into the other phase (the phase
+   * map is edited; up ones, then down ones, counted in `absorbed`) and joined to the domains
+   * around them, as a labeling of the edited map would find them. Returns the number of
+   * domains K (ids 1..K, in raster order of their first pixel).
    */
-  label(rule: RuleCode, periodicX: boolean, periodicY: boolean): number {
+  label(rule: RuleCode, periodicX: boolean, periodicY: boolean, minArea = 0): number {
     this.check();
     const k = this.k;
     const px = periodicX ? 1 : 0, py = periodicY ? 1 : 0;
+    const specks = minArea > 1;
+    this.absorbed = { up: 0, down: 0 };
+    // With a minimum area the scan also counts each provisional label's pixels.
+    if (specks && !this.labelAreaPtr) this.labelAreaPtr = wasmAlloc(4 * (this.pixels + 1));
+    k.bindSpecks(specks ? this.labelAreaPtr : 0, 0, 0, 0);
     k.setGeometry(this.width, this.height, px, py, rule);
     k.setBuffers(this.phasePtr, this.labelPtr, this.parentPtr, rule === 2 ? this.quadPtr : 0);
     const components = k.labelScan();
     this.ensureCapacity(components + 1);
+    if (specks) { this.bindSpeckColumns(components + 1); k.componentAreas(components); }
     k.bindDomains(this.tablePtr);
     k.setGeometry(this.width, this.height, px, py, rule);
-    const periodic = periodicX || periodicY;
+    // Components join into domains across periodic sides, and through absorbed specks.
+    const joined = periodicX || periodicY || specks;
     let K = components;
-    if (periodic) {
+    if (joined) {
       const c = this.columnPtr;
       k.bindComponents(c.get("cq")!, c.get("csx")!, c.get("csy")!, c.get("cwf")!, c.get("fin")!);
       K = k.resolvePeriodic(components);
     }
-    k.measureRuns(K, periodic ? 1 : 0);
+    if (specks) {
+      // Up specks first, then down specks: flipping a speck only merges it into its
+      // surroundings, so two rounds leave no domain below the limit (the second sees the
+      // domains the first one grew). Saddle decisions stay those of the samples.
+      for (const p of [1, 0] as const) {
+        const count = k.markSpecks(components, p, minArea);
+        if (count === 0) continue;
+        if (p === 1) this.absorbed.up = count; else this.absorbed.down = count;
+        K = k.absorbMarked(components, p);
+      }
+      k.bindSpecks(0, 0, 0, 0);
+    }
+    k.measureRuns(K, joined ? 1 : 0);
     this.domainCount = K;
     return K;
   }
 
-  /** Flips the pixels of domains of `phase` smaller than `minArea`; returns pixels flipped. */
-  absorb(phase: 0 | 1, minArea: number): number {
-    const c = this.columnPtr;
-    return this.k.absorbSpecks(c.get("area")!, c.get("phase")!, phase, minArea);
+  /** Three i32 columns per component for the speck pass (room for `needed` components). */
+  private bindSpeckColumns(needed: number): void {
+    if (needed > this.speckCapacity) {
+      if (this.speckPtr) wasmFree(this.speckPtr);
+      this.speckCapacity = Math.max(needed, Math.ceil(this.speckCapacity * 1.5));
+      this.speckPtr = wasmAlloc(12 * this.speckCapacity);
+    }
+    const cap = this.speckCapacity;
+    this.k.bindSpecks(this.labelAreaPtr, this.speckPtr, this.speckPtr + 4 * cap, this.speckPtr + 8 * cap);
   }
 
   /** Quad pass over the last labeling: Euler contributions, crossings, frame statistics. */
@@ -243,7 +275,7 @@ export class LabelingWorkspace {
     if (this.disposed) return;
     this.disposed = true;
     for (const p of [this.srcPtr, this.phasePtr, this.labelPtr, this.parentPtr, this.quadPtr,
-      this.histPtr, this.tablePtr, this.statsPtr, this.trigPtr, this.domainPtr]) {
+      this.histPtr, this.tablePtr, this.statsPtr, this.trigPtr, this.domainPtr, this.labelAreaPtr, this.speckPtr]) {
       if (p) wasmFree(p);
     }
   }
