@@ -322,18 +322,14 @@ export function absorbMarked(k: i32, p: i32): i32 {
   for (let y = 0; y < h; y++) {
     const row = y * w;
     let x0 = 0;
+    const pr = PH + <usize>row;
     while (x0 < w) {
-      // One run of one provisional label (labels of a row change where the phase does).
-      const l = labelAt(row + x0);
-      const lv = i32x4.splat(l);
-      let x1 = x0 + 1;
-      while (x1 + 4 <= w) {
-        const m = i32x4.bitmask(i32x4.eq(v128.load(LB + (<usize>(row + x1) << 2)), lv));
-        if (m != 15) { x1 += <i32>ctz(~m); break; }
-        x1 += 4;
-      }
-      if (x1 + 4 > w) while (x1 < w && labelAt(row + x1) == l) x1++;
-      const c = ldi(PA, l);
+      // One run of one phase, sixteen pixels a step: its pixels are in one domain (row
+      // neighbours of one phase always join, and a first round's flipped pixels were joined to
+      // theirs), so the component of its first pixel tells whether the run goes.
+      const v = <i32>load<u8>(pr + <usize>x0);
+      const x1 = runEnd(pr, x0 + 1, w, i8x16.splat(<i8>v));
+      const c = ldi(PA, labelAt(row + x0));
       if (ldi(DMARK, c) == -1) {
         memory.fill(PH + <usize>(row + x0), <u8>q, <usize>(x1 - x0));
         sti(CPHASE, c, q);
