@@ -4,8 +4,7 @@
 // a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
 // Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the thinning
 // alone (that run minus the distance map of the same round), the skeleton graph (from a thinned
-// frame), the whole analyzeSkeletons call (the total; the after side as the frame analysis calls
-// it, with the labels in Wasm memory and the labeling's area and phase), and analyzeSkeletons without the run
+// frame), the whole analyzeSkeletons call (the total), and analyzeSkeletons without the run
 // (on the last run's buffers: adjacency, graph, classification, summaries).
 //
 // The machine is usually shared: candidates are timed in interleaved rounds (every candidate
@@ -127,19 +126,13 @@ for (const size of sizes) {
   lab.loadPhase(phase);
   const count = lab.label(0, true, true);
   const labels = lab.labels().slice();
-  // As the frame analysis calls it: the labels where the labeling left them (in Wasm memory,
-  // a fresh view per call) with the labeling's area and phase of each domain; the before side
-  // takes them as plain arrays (its kernels are another instance).
-  const areaCol = lab.i32Column("area"), phaseCol = lab.i32Column("phase");
-  const domainTotals = { area: new Float64Array(count), phase: new Uint8Array(count) };
-  for (let d = 1; d <= count; d++) { domainTotals.area[d - 1] = areaCol[d]!; domainTotals.phase[d - 1] = phaseCol[d]!; }
+  lab.dispose();
   const frame = { width: size, height: size, phase, labels, count };
-  const frameOf = (side: string) => side === "after" ? { ...frame, labels: lab.labels(), domainTotals } : frame;
   const geometry = { periodicX: true, periodicY: true, rule: 0 as const };
   const summary: string[] = [];
   for (const [side, m] of sides) {
     const ws = new m.wasm.SkeletonWorkspace(size, size);
-    const first = m.analysis.analyzeSkeletons(frameOf(side), { boundary: "periodic" }, ws);
+    const first = m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws);
     summary.push(`${side}: up ${first.up.labyrinth.count} labyrinths, ${first.up.stripe.count} stripes, ` +
       `${first.up.bubble.count} bubbles, ends/area ${(first.up.endsDensity * 1e4).toFixed(2)}e-4`);
     const r = ws.run(phase, geometry);
@@ -159,7 +152,7 @@ for (const size of sizes) {
     });
     add(`${size} ${side} thinning + distance`, () => { ws.run(phase, geometry); });
     add(`${size} ${side} graph`, () => { m.graph.skeletonGraph(input, { spurFactor: 3, junctionMergeFactor: 1 }); });
-    add(`${size} ${side} thinning + graph + classification`, () => { m.analysis.analyzeSkeletons(frameOf(side), { boundary: "periodic" }, ws); });
+    add(`${size} ${side} thinning + graph + classification`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws); });
     // analyzeSkeletons on a workspace whose run hands back the last run's buffers: everything
     // the call does besides thinning (adjacency, graph, classification, summaries, copies).
     const q = ws as unknown as { sk: number; dist: number };
@@ -172,7 +165,7 @@ for (const size of sizes) {
       },
     }) as typeof ws;
     ws.run(phase, geometry);
-    add(`${size} ${side} analyzeSkeletons without the run`, () => { m.analysis.analyzeSkeletons(frameOf(side), { boundary: "periodic" }, rerun); });
+    add(`${size} ${side} analyzeSkeletons without the run`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, rerun); });
   }
   console.log(`${size} x ${size} periodic maze, ${count} domains; ${summary.join("; ")}`);
   const img = new Uint8Array(size * size), del = new Int32Array(size * size);
