@@ -267,14 +267,8 @@ export class FrameAnalyzer {
     phase.set(this.ws.phase());
     const quads = rule === 2 ? this.ws.quads()!.slice() : undefined;
     this.skeletonWs ??= new SkeletonWorkspace(this.width, this.height);
-    // The labeling's area and phase of each domain go with its labels (only the largest
-    // distance is left to find).
-    const K = this.ws.domainCount;
-    const areaCol = this.ws.i32Column("area"), phaseCol = this.ws.i32Column("phase");
-    const domainTotals = { area: new Float64Array(K), phase: new Uint8Array(K) };
-    for (let d = 1; d <= K; d++) { domainTotals.area[d - 1] = areaCol[d]!; domainTotals.phase[d - 1] = phaseCol[d]!; }
     const a = analyzeSkeletons(
-      { width: this.width, height: this.height, phase, labels: this.ws.labels(), count: K, domainTotals },
+      { width: this.width, height: this.height, phase, labels: this.ws.labels(), count: this.ws.domainCount },
       { ...(o.skeleton as object), boundary: o.boundary, connectivity: o.connectivity, pixelSize: o.pixelSize, ...(quads ? { quads } : {}) },
       this.skeletonWs,
       "views",

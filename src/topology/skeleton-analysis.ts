@@ -44,13 +44,6 @@ export interface LabeledFrame {
   phase: Uint8Array;
   labels: Int32Array;
   count: number;
-  /**
-   * Area (px) and phase (1 up, 0 down) of each domain (index = id - 1), when the labels come
-   * from a labeling of this very frame that measured them: then the largest distance of each
-   * domain is read only where it can be (pixels without a larger 4-neighbour) and the labels
-   * are checked only there.
-   */
-  domainTotals?: { area: Float64Array; phase: Uint8Array };
 }
 
 export interface SkeletonAnalysis {
@@ -159,19 +152,11 @@ export function analyzeSkeletons(
   let skeleton = r.skeleton, distance = r.distance;
   if (reuse) { into.skeleton.set(r.skeleton); into.distance.set(r.distance); skeleton = into.skeleton; distance = into.distance; }
   else if (!views) { skeleton = r.skeleton.slice(); distance = r.distance.slice(); }
-  // Area, phase and largest distance of every domain, run by run of one label (Wasm), or only
-  // the largest distance where the labeling's own area and phase come with labels in Wasm
-  // memory; the labels stay in the workspace (or where they are) and the adjacency carries them
-  // by skeleton index.
-  const given = frame.domainTotals;
-  if (given && (given.area.length !== count || given.phase.length !== count)) {
-    throw new Error(`frame.domainTotals: expected ${count} areas and phases, got ${given.area.length} and ${given.phase.length}`);
-  }
-  const fast = given !== undefined && labelsAt >= 0;
-  const area = fast ? given.area : new Float64Array(count), maxD = new Float64Array(count);
-  const domainPhase = fast ? given.phase : new Uint8Array(count);
-  const bad = fast ? ws.domainMaximaAt(labelsAt, count, maxD)
-    : labelsAt >= 0 ? ws.domainTotalsAt(labelsAt, count, area, maxD, domainPhase)
+  // Area, phase and largest distance of every domain, run by run of one label (Wasm); the labels
+  // stay in the workspace (or where they are) and the adjacency carries them by skeleton index.
+  const area = new Float64Array(count), maxD = new Float64Array(count), domainPhase = new Uint8Array(count);
+  const bad = labelsAt >= 0
+    ? ws.domainTotalsAt(labelsAt, count, area, maxD, domainPhase)
     : ws.domainTotals(labels, count, area, maxD, domainPhase);
   if (bad >= 0) {
     const got = labelsAt >= 0 ? viewI32(labelsAt, n)[bad] : labels[bad];

@@ -75,7 +75,6 @@ export interface SkeletonGraphKernelExports {
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
   ): void;
   domainTotals(labels: number, phase: number, distance: number, n: number, count: number, area: number, maxDistance: number, domainPhase: number): number;
-  domainMaxima(labels: number, distance: number, width: number, height: number, count: number, maxDistance: number): number;
 }
 
 // Hexagonal frames (assembly/hex-label.ts, assembly/hex-thin.ts).

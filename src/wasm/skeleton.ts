@@ -188,27 +188,6 @@ export class SkeletonWorkspace {
     return bad;
   }
 
-  /**
-   * The largest distance of every domain (as domainTotalsAt) for labels that come from a labeling
-   * of this frame, at byte offset `labelsPtr` in Wasm memory: only the pixels that can hold a
-   * domain's largest distance are read (no larger 4-neighbour), and only their labels are
-   * checked. Returns the first pixel read whose label is outside 1..count, or -1.
-   */
-  domainMaximaAt(labelsPtr: number, count: number, maxDistance: Float64Array): number {
-    if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
-    if (!this.totals || this.totals.capacity < count) {
-      if (this.totals) wasmFree(this.totals.ptr);
-      const capacity = Math.max(64, 2 * count);
-      this.totals = { ptr: wasmAlloc(17 * capacity + 16), capacity };
-    }
-    const k = kernels() as K & SkeletonGraphKernelExports;
-    this.labelsAt = labelsPtr;
-    const t = this.totals;
-    const bad = k.domainMaxima(labelsPtr, this.dist, this.width, this.height, count, t.ptr + 8 * t.capacity);
-    maxDistance.set(viewF64(t.ptr + 8 * t.capacity, count));
-    return bad;
-  }
-
   /** The skeleton and distance map of the last run as fresh views (valid until the next run). */
   lastRun(): { skeleton: Uint8Array; distance: Float32Array } {
     const n = this.width * this.height;
