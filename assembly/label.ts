@@ -246,6 +246,11 @@ export function resolvePeriodic(k: i32): i32 {
     wrapPixel(0, y);
     if (w > 1) wrapPixel(w - 1, y);
   }
+  return numberDomains(k);
+}
+
+/** Compresses every component's path to its root and numbers the domains 1..K in order of their root (the smallest component). Returns K. */
+function numberDomains(k: i32): i32 {
   let K = 0;
   for (let c = 1; c <= k; c++) {
     if (cfind(c) == c) { K++; sti(CFIN, c, K); }
@@ -307,7 +312,7 @@ export function markSpecks(k: i32, p: i32, minArea: i32): i32 {
   return count;
 }
 
-/** Joins the component of pixel i (phase q) with that of pixel j at lattice shift (tx, ty) when j is of phase q. */
+/** Joins component c (flipped into phase q) with that of pixel j, at lattice shift (tx, ty), when j is of phase q. */
 @inline function joinFlipped(c: i32, q: i32, j: i32, tx: i32, ty: i32): void {
   if (phaseAt(j) == q) cunite(c, ldi(PA, labelAt(j)), tx, ty);
 }
@@ -348,14 +353,5 @@ export function absorbMarked(k: i32, p: i32): i32 {
       x0 = x1;
     }
   }
-  for (let c = 1; c <= k; c++) cfind(c);
-  let K = 0;
-  for (let c = 1; c <= k; c++) {
-    if (ldi(CQ, c) == c) { K++; sti(CFIN, c, K); }
-  }
-  for (let c = 1; c <= k; c++) {
-    const r = ldi(CQ, c);
-    if (r != c) sti(CFIN, c, ldi(CFIN, r));
-  }
-  return K;
+  return numberDomains(k);
 }

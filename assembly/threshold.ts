@@ -1,5 +1,6 @@
-// Samples to phase map (1 = up, 0 = down), histograms for Otsu's level, saddle decisions,
-// and absorption of specks. A sample is up when it is above the level (XOR invert).
+// Samples to phase map (1 = up, 0 = down), histograms for Otsu's level and saddle decisions.
+// A sample is up when it is above the level (XOR invert). (Specks below the minimum area are
+// absorbed by the labeling, label.ts.)
 import { W, H, PH, ldi, sti } from "./common";
 
 /** u8 samples: up when v >= cut (cut = floor(level) + 1, in 0..256). SIMD, 16 pixels a step. */
