@@ -354,3 +354,154 @@ export function domainTotals(labels: usize, ph: usize, dist: usize, n: i32, coun
   }
   return -1;
 }
+
+// ---- the compact adjacency from bit planes (fixed rules) ---------------------------------
+// The same output as skeletonNeighboursCompact under RULE 0 or 1, from three bit planes of the
+// skeleton (up, down, both; bit x of a row = pixel x, rows of RBB bytes with zeros past the
+// frame) and the skeleton index of each row word (the pixels before it in raster order). A
+// pixel's ring comes from three unaligned 64-bit loads of its phase's plane; its neighbours'
+// indices from one rank per row above and below: N at rank(x), NE at rank(x) + [skeleton at x],
+// NW at rank(x) - 1 (it is a skeleton pixel), E and W the next and previous index.
+
+let RBB: usize = 0; // bytes per plane row: whole words and one spare word
+
+/** Bytes of the planes and word ranks that skeletonNeighboursBits needs for a w x h frame. */
+export function neighbourBitsBytes(w: i32, h: i32): i32 {
+  const ww = (w + 63) >> 6;
+  return 3 * h * ((ww + 1) << 3) + 4 * h * ww + 16;
+}
+
+@inline function bitAt(plane: usize, y: i32, x: i32): i32 {
+  return <i32>(load<u8>(plane + <usize>y * RBB + (<usize>x >> 3)) >> <u8>(x & 7)) & 1;
+}
+
+@inline function rankAt(both: usize, ranks: usize, ww: i32, y: i32, x: i32): i32 {
+  const k = x >> 6;
+  const word = load<u64>(both + <usize>y * RBB + (<usize>k << 3));
+  return ldi(ranks, y * ww + k) + <i32>popcnt(word & ((<u64>1 << <u64>(x & 63)) - 1));
+}
+
+/**
+ * skeletonNeighboursCompact for RULE 0 or 1 from bit planes carved from `work`
+ * (neighbourBitsBytes, 8-byte aligned): same list, cnbr, cdeg, cdist, ident and clab.
+ * Returns the count.
+ */
+export function skeletonNeighboursBits(
+  sk: usize, dst: usize, work: usize, list: usize, cnbr: usize, cdeg: usize, cdist: usize, ident: usize,
+  lab: usize, clab: usize,
+): i32 {
+  const w = W, h = H;
+  const px = PX && w >= 3, py = PY && h >= 3;
+  const ww = (w + 63) >> 6;
+  RBB = <usize>(ww + 1) << 3;
+  const up = work, down = up + <usize>h * RBB, both = down + <usize>h * RBB;
+  const ranks = both + <usize>h * RBB;
+  // Planes and ranks, sixteen pixels a step.
+  const z = i8x16.splat(0);
+  let count = 0;
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    const ro = <usize>y * RBB;
+    for (let k = 0; k < ww; k++) {
+      const x0 = k << 6;
+      let s: u64 = 0, u: u64 = 0;
+      if (x0 + 64 <= w) {
+        for (let q = 0; q < 4; q++) {
+          const o = <usize>(row + x0 + (q << 4));
+          const sh = <u64>(q << 4);
+          s |= <u64>i8x16.bitmask(i8x16.ne(v128.load(sk + o), z)) << sh;
+          u |= <u64>i8x16.bitmask(i8x16.ne(v128.load(PH + o), z)) << sh;
+        }
+      } else {
+        for (let x = x0; x < w; x++) {
+          const b = <u64>1 << <u64>(x - x0);
+          if (load<u8>(sk + <usize>(row + x)) != 0) s |= b;
+          if (load<u8>(PH + <usize>(row + x)) != 0) u |= b;
+        }
+      }
+      const ko = <usize>k << 3;
+      store<u64>(up + ro + ko, s & u);
+      store<u64>(down + ro + ko, s & ~u);
+      store<u64>(both + ro + ko, s);
+      sti(ranks, y * ww + k, count);
+      count += <i32>popcnt(s);
+    }
+    // The spare word: zeros past the frame for the unaligned loads.
+    const last = <usize>ww << 3;
+    store<u64>(up + ro + last, 0); store<u64>(down + ro + last, 0); store<u64>(both + ro + last, 0);
+  }
+  let t = 0;
+  for (let y = 0; y < h; y++) {
+    const row = y * w;
+    const ym = y > 0 ? y - 1 : py ? h - 1 : -1;
+    const yp = y + 1 < h ? y + 1 : py ? 0 : -1;
+    const inner = y > 0 && y + 1 < h;
+    // Row starts in each plane: this row, the one above and the one below (inside the frame).
+    const ro = <usize>y * RBB;
+    const uo = inner ? ro - RBB : ro, doo = inner ? ro + RBB : ro;
+    const rankUp = inner ? ranks + (<usize>((y - 1) * ww) << 2) : 0, rankDown = inner ? ranks + (<usize>((y + 1) * ww) << 2) : 0;
+    for (let k = 0; k < ww; k++) {
+      const ko = <usize>k << 3;
+      let m = load<u64>(both + ro + ko);
+      const upWord = load<u64>(up + ro + ko);
+      while (m != 0) {
+        const b = <i32>ctz(m);
+        const x = (k << 6) + b;
+        m &= m - 1;
+        const i = row + x;
+        const v = <i32>((upWord >> <u64>b) & 1);
+        const plane = v == 1 ? up : down;
+        const diag = i32((RULE == 0) == (v == 1));
+        const base = cnbr + (<usize>t << 5);
+        let d = 0;
+        if (inner && x > 0 && x + 1 < w) {
+          const xo = <usize>(x - 1) >> 3, xs = <u64>((x - 1) & 7);
+          const c3 = <i32>((load<u64>(plane + ro + xo) >> xs) & 7);
+          const n3 = <i32>((load<u64>(plane + uo + xo) >> xs) & 7);
+          const s3 = <i32>((load<u64>(plane + doo + xo) >> xs) & 7);
+          let rn = 0, rs = 0, bn = 0, bs = 0;
+          if ((n3 | s3) != 0) {
+            // Ranks of (x, y - 1) and (x, y + 1), and whether those are skeleton pixels.
+            const below = ((<u64>1) << <u64>b) - 1;
+            const wn = load<u64>(both + uo + ko), wsw = load<u64>(both + doo + ko);
+            rn = load<i32>(rankUp + (<usize>k << 2)) + <i32>popcnt(wn & below);
+            rs = load<i32>(rankDown + (<usize>k << 2)) + <i32>popcnt(wsw & below);
+            bn = <i32>((wn >> <u64>b) & 1); bs = <i32>((wsw >> <u64>b) & 1);
+          }
+          // E, N, W, S, then NE, NW, SW, SE (diagonals for the 8-connected phase only).
+          if ((c3 & 4) != 0) { store<i32>(base + (<usize>d << 2), (t + 1) << 3); d++; }
+          if ((n3 & 2) != 0) { store<i32>(base + (<usize>d << 2), (rn << 3) | 1); d++; }
+          if ((c3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((t - 1) << 3) | 2); d++; }
+          if ((s3 & 2) != 0) { store<i32>(base + (<usize>d << 2), (rs << 3) | 3); d++; }
+          if (diag) {
+            if ((n3 & 4) != 0) { store<i32>(base + (<usize>d << 2), ((rn + bn) << 3) | 4); d++; }
+            if ((n3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((rn - 1) << 3) | 5); d++; }
+            if ((s3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((rs - 1) << 3) | 6); d++; }
+            if ((s3 & 4) != 0) { store<i32>(base + (<usize>d << 2), ((rs + bs) << 3) | 7); d++; }
+          }
+        } else {
+          // On the frame's rim: wrap-aware positions, -1 beyond an open side.
+          const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
+          const xp = x + 1 < w ? x + 1 : px ? 0 : -1;
+          if (xp >= 0 && bitAt(plane, y, xp) != 0) { store<i32>(base + (<usize>d << 2), (xp > x ? t + 1 : rankAt(both, ranks, ww, y, xp)) << 3); d++; }
+          if (ym >= 0 && bitAt(plane, ym, x) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, ym, x) << 3) | 1); d++; }
+          if (xm >= 0 && bitAt(plane, y, xm) != 0) { store<i32>(base + (<usize>d << 2), ((xm < x ? t - 1 : rankAt(both, ranks, ww, y, xm)) << 3) | 2); d++; }
+          if (yp >= 0 && bitAt(plane, yp, x) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, yp, x) << 3) | 3); d++; }
+          if (diag) {
+            if (ym >= 0 && xp >= 0 && bitAt(plane, ym, xp) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, ym, xp) << 3) | 4); d++; }
+            if (ym >= 0 && xm >= 0 && bitAt(plane, ym, xm) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, ym, xm) << 3) | 5); d++; }
+            if (yp >= 0 && xm >= 0 && bitAt(plane, yp, xm) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, yp, xm) << 3) | 6); d++; }
+            if (yp >= 0 && xp >= 0 && bitAt(plane, yp, xp) != 0) { store<i32>(base + (<usize>d << 2), (rankAt(both, ranks, ww, yp, xp) << 3) | 7); d++; }
+          }
+        }
+        sti(list, t, i);
+        store<u8>(cdeg + <usize>t, <u8>d);
+        store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
+        sti(ident, t, t);
+        t++;
+      }
+    }
+  }
+  if (lab != 0) for (let q = 0; q < count; q++) sti(clab, q, ldi(lab, ldi(list, q)));
+  return count;
+}

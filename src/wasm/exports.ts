@@ -70,6 +70,11 @@ export interface SkeletonGraphKernelExports {
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,
     labels: number, compactLabels: number,
   ): number;
+  neighbourBitsBytes(width: number, height: number): number;
+  skeletonNeighboursBits(
+    skeleton: number, distance: number, work: number, list: number, compactNeighbours: number, compactDegrees: number,
+    compactDistance: number, identity: number, labels: number, compactLabels: number,
+  ): number;
   skeletonCompact(
     neighbours: number, degrees: number, list: number, count: number, distance: number, index: number,
     compactNeighbours: number, compactDegrees: number, compactDistance: number, identity: number,

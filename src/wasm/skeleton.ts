@@ -58,6 +58,7 @@ export class SkeletonWorkspace {
   private labelsAt = 0;
   private lastGeometry: ThinGeometry | undefined;
   private totals: { ptr: number; capacity: number } | undefined;
+  private neighbourBits: number | undefined;
 
   constructor(width: number, height: number) {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
@@ -129,7 +130,7 @@ export class SkeletonWorkspace {
    * each skeleton pixel's distance, without the frame-sized neighbour lists (the skeleton
    * graph's input). Pointers into Wasm memory: valid until the next call.
    */
-  compactNeighbours(): CompactSkeletonNeighbours {
+  compactNeighbours(kernel: "auto" | "bytes" = "auto"): CompactSkeletonNeighbours {
     if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
     const g = this.lastGeometry;
     if (!g) throw new Error("domtopo: SkeletonWorkspace.compactNeighbours() needs a run first");
@@ -145,7 +146,15 @@ export class SkeletonWorkspace {
     k.setGeometry(width, height, g.periodicX ? 1 : 0, g.periodicY ? 1 : 0, g.rule);
     k.setBuffers(this.ph, 0, 0, this.qm);
     const lab = this.labelsAt;
-    const count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
+    // Under a fixed rule from bit planes of the skeleton ('bytes': the byte-map kernel, which
+    // the saddle rule always takes; both give the same tables).
+    let count: number;
+    if (g.rule !== 2 && kernel === "auto") {
+      this.neighbourBits ??= wasmAlloc(k.neighbourBitsBytes(width, height));
+      count = k.skeletonNeighboursBits(this.sk, this.dist, this.neighbourBits, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
+    } else {
+      count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
+    }
     const out: CompactSkeletonNeighbours = { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
     if (lab) out.label = c.label;
     return out;
@@ -201,6 +210,7 @@ export class SkeletonWorkspace {
     if (this.totals) wasmFree(this.totals.ptr);
     if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
     if (this.compactBuffers) for (const p of Object.values(this.compactBuffers)) wasmFree(p);
+    if (this.neighbourBits !== undefined) wasmFree(this.neighbourBits);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts, this.bits]) wasmFree(p);
   }
 }
