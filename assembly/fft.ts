@@ -534,6 +534,19 @@ export function fft2TIm(p: usize): usize { return p + <usize>p2w(p, 11); }
 export function fft2TStride(p: usize): i32 { return p2w(p, 4); }
 
 /** Forward transform of the w x h f32 frame at `src` into T. Returns 1. */
+@inline function halfSum(a: v128, b: v128): v128 { return f32x4.mul(f32x4.splat(0.5), f32x4.add(a, b)); }
+@inline function halfDiff(a: v128, b: v128): v128 { return f32x4.mul(f32x4.splat(0.5), f32x4.sub(a, b)); }
+
+/** Rows r0..r3 (lane j = column j) stored as columns: lane j's four values at dst + j stride. */
+@inline function storeTransposed(dst: usize, stride: usize, r0: v128, r1: v128, r2: v128, r3: v128): void {
+  const t0 = v128.shuffle<f32>(r0, r1, 0, 4, 1, 5), t1 = v128.shuffle<f32>(r0, r1, 2, 6, 3, 7);
+  const t2 = v128.shuffle<f32>(r2, r3, 0, 4, 1, 5), t3 = v128.shuffle<f32>(r2, r3, 2, 6, 3, 7);
+  v128.store(dst, v128.shuffle<f32>(t0, t2, 0, 1, 4, 5));
+  v128.store(dst + stride, v128.shuffle<f32>(t0, t2, 2, 3, 6, 7));
+  v128.store(dst + 2 * stride, v128.shuffle<f32>(t1, t3, 0, 1, 4, 5));
+  v128.store(dst + 3 * stride, v128.shuffle<f32>(t1, t3, 2, 3, 6, 7));
+}
+
 export function fft2Forward(p: usize, src: usize): i32 {
   const w = p2w(p, 0), h = p2w(p, 1), B = p2w(p, 2), hh = p2w(p, 3), ts = p2w(p, 4);
   const cw = p2w(p, 5), R = p2w(p, 9);
@@ -572,12 +585,41 @@ export function fft2Forward(p: usize, src: usize): i32 {
     const where = lineForward(lpH, ar, ai, br, bi);
     const zr = where == 0 ? ar : br, zi = where == 0 ? ai : bi;
     const iend = cw - c0 < B ? cw - c0 : B;
+    // A whole block of column pairs: rows ky = 1 .. 4 at a time, four columns a vector,
+    // transposed 4 x 4 into T (ky = 0 and the rows left over one by one below).
+    let kv = 1;
+    if (iend == B && x0 + 2 * B <= w) {
+      for (; kv + 3 < hh; kv += 4) {
+        const o0 = ra(kv), o1 = ra(kv + 1), o2 = ra(kv + 2), o3 = ra(kv + 3);
+        const m0 = ra(h - kv), m1 = ra(h - kv - 1), m2 = ra(h - kv - 2), m3 = ra(h - kv - 3);
+        const kb = <usize>kv << 2;
+        for (let g = 0; g < NV; g++) {
+          const lane = <usize>g << 4;
+          const x = x0 + 8 * g;
+          const er = tre + <usize>x * tsBytes + kb, ei = tim + <usize>x * tsBytes + kb;
+          const pr0 = v128.load(zr + o0 + lane), pi0 = v128.load(zi + o0 + lane);
+          const mr0 = v128.load(zr + m0 + lane), mi0 = v128.load(zi + m0 + lane);
+          const pr1 = v128.load(zr + o1 + lane), pi1 = v128.load(zi + o1 + lane);
+          const mr1 = v128.load(zr + m1 + lane), mi1 = v128.load(zi + m1 + lane);
+          const pr2 = v128.load(zr + o2 + lane), pi2 = v128.load(zi + o2 + lane);
+          const mr2 = v128.load(zr + m2 + lane), mi2 = v128.load(zi + m2 + lane);
+          const pr3 = v128.load(zr + o3 + lane), pi3 = v128.load(zi + o3 + lane);
+          const mr3 = v128.load(zr + m3 + lane), mi3 = v128.load(zi + m3 + lane);
+          // Column x + 2 j (j = lane) takes (Z(ky) + conj Z(-ky)) / 2, column x + 2 j + 1 the rest.
+          storeTransposed(er, 2 * tsBytes, halfSum(pr0, mr0), halfSum(pr1, mr1), halfSum(pr2, mr2), halfSum(pr3, mr3));
+          storeTransposed(ei, 2 * tsBytes, halfDiff(pi0, mi0), halfDiff(pi1, mi1), halfDiff(pi2, mi2), halfDiff(pi3, mi3));
+          storeTransposed(er + tsBytes, 2 * tsBytes, halfSum(pi0, mi0), halfSum(pi1, mi1), halfSum(pi2, mi2), halfSum(pi3, mi3));
+          storeTransposed(ei + tsBytes, 2 * tsBytes, halfDiff(mr0, pr0), halfDiff(mr1, pr1), halfDiff(mr2, pr2), halfDiff(mr3, pr3));
+        }
+      }
+    }
     for (let i = 0; i < iend; i++) {
       const x = x0 + 2 * i;
       const lane = <usize>i << 2;
       const er = tre + <usize>x * tsBytes, ei = tim + <usize>x * tsBytes;
       const hasOdd = x + 1 < w;
       for (let ky = 0; ky < hh; ky++) {
+        if (ky == 1) { ky = kv; if (ky >= hh) break; }
         const km = ky == 0 ? 0 : h - ky;
         const o = ra(ky) + lane, om = ra(km) + lane;
         const pr = load<f32>(zr + o), pi = load<f32>(zi + o);
