@@ -232,6 +232,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   const c = input.compactAdjacency ?? compactAdjacency(input, givenDistPtr);
   const count = c.count;
   const geomPtr = block("geometry", 72 * 8), stackPtr = block("stack", 4 * count + 4), outPtr = block("out", 16);
+  const pairsPtr = block("pairs", 8 * count + 8);
   const nodeCap = count + 1;
   const nodesPtr = block("nodes", 12 * nodeCap), ownerPtr = block("compactOwner", 4 * count + 4);
   let branchCap = Math.max(64, 2 * count + 16);
@@ -243,7 +244,7 @@ export function skeletonGraph(input: SkeletonGraphInput, options: GraphOptions):
   gv.set(geometry.step.subarray(0, 8), 0);
   gv.set(geometry.chord.subarray(0, 64), 8);
   const k = kernels() as unknown as GraphKernels;
-  while (k.skeletonWalk(c.neighbours, c.degree, c.identity, count, c.distance, ownerPtr, geomPtr, nodesPtr, nodeCap, branchesPtr, branchCap, stackPtr, outPtr) < 0) {
+  while (k.skeletonWalk(c.neighbours, c.degree, c.identity, count, c.distance, ownerPtr, geomPtr, nodesPtr, nodeCap, branchesPtr, branchCap, stackPtr, outPtr, pairsPtr) < 0) {
     // More branches than room (at most one per adjacent pixel pair and one ring per pixel).
     branchCap *= 2;
     branchesPtr = block("branches", 40 * branchCap);

@@ -63,7 +63,7 @@ export interface SkeletonGraphKernelExports {
   skeletonNeighbours(skeleton: number, neighbours: number, degrees: number, list: number): number;
   skeletonWalk(
     neighbours: number, degrees: number, list: number, count: number, distance: number, owner: number, geometry: number,
-    nodes: number, nodeCap: number, branches: number, branchCap: number, stack: number, out: number,
+    nodes: number, nodeCap: number, branches: number, branchCap: number, stack: number, out: number, pairs: number,
   ): number;
   skeletonNeighboursCompact(
     skeleton: number, distance: number, index: number, list: number,
