@@ -533,7 +533,7 @@ export function fft2TRe(p: usize): usize { return p + <usize>p2w(p, 10); }
 export function fft2TIm(p: usize): usize { return p + <usize>p2w(p, 11); }
 export function fft2TStride(p: usize): i32 { return p2w(p, 4); }
 
-/** Forward transform of the w x h f32 frame at `src` into T. Returns 1. */
+// Pass A's split, four columns of one row a vector: (a + b) / 2 and (a - b) / 2.
 @inline function halfSum(a: v128, b: v128): v128 { return f32x4.mul(f32x4.splat(0.5), f32x4.add(a, b)); }
 @inline function halfDiff(a: v128, b: v128): v128 { return f32x4.mul(f32x4.splat(0.5), f32x4.sub(a, b)); }
 
@@ -547,6 +547,7 @@ export function fft2TStride(p: usize): i32 { return p2w(p, 4); }
   v128.store(dst + 3 * stride, v128.shuffle<f32>(t1, t3, 2, 3, 6, 7));
 }
 
+/** Forward transform of the w x h f32 frame at `src` into T. Returns 1. */
 export function fft2Forward(p: usize, src: usize): i32 {
   const w = p2w(p, 0), h = p2w(p, 1), B = p2w(p, 2), hh = p2w(p, 3), ts = p2w(p, 4);
   const cw = p2w(p, 5), R = p2w(p, 9);

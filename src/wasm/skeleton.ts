@@ -128,7 +128,9 @@ export class SkeletonWorkspace {
   /**
    * The same adjacency as `neighbours()`, numbered by skeleton index (raster order) and with
    * each skeleton pixel's distance, without the frame-sized neighbour lists (the skeleton
-   * graph's input). Pointers into Wasm memory: valid until the next call.
+   * graph's input). Pointers into Wasm memory: valid until the next call. Under a fixed rule
+   * the tables come from bit planes of the skeleton; `kernel: 'bytes'` takes the byte-map
+   * kernel instead (the saddle rule's; the same tables, for comparison).
    */
   compactNeighbours(kernel: "auto" | "bytes" = "auto"): CompactSkeletonNeighbours {
     if (this.disposed) throw new Error("domtopo: this SkeletonWorkspace was disposed");
@@ -146,8 +148,6 @@ export class SkeletonWorkspace {
     k.setGeometry(width, height, g.periodicX ? 1 : 0, g.periodicY ? 1 : 0, g.rule);
     k.setBuffers(this.ph, 0, 0, this.qm);
     const lab = this.labelsAt;
-    // Under a fixed rule from bit planes of the skeleton ('bytes': the byte-map kernel, which
-    // the saddle rule always takes; both give the same tables).
     let count: number;
     if (g.rule !== 2 && kernel === "auto") {
       this.neighbourBits ??= wasmAlloc(k.neighbourBitsBytes(width, height));
