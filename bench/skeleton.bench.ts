@@ -4,7 +4,9 @@
 // a plain-TS Zhang-Suen thinning (Zhang & Suen 1984, CACM 27:236) of both phases, in one run.
 // Per pass: the distance map alone, thinning + distance (the Wasm workspace run), the thinning
 // alone (that run minus the distance map of the same round), the skeleton graph (from a thinned
-// frame), the whole analyzeSkeletons call (the total), and analyzeSkeletons without the run
+// frame), the whole analyzeSkeletons call (the total: labels as a plain array, skeleton and
+// distance map copied out), the same call as the frame analysis makes it (labels in Wasm memory
+// where the labeling left them, the maps as views), and analyzeSkeletons without the run
 // (on the last run's buffers: adjacency, graph, classification, summaries).
 //
 // The machine is usually shared: candidates are timed in interleaved rounds (every candidate
@@ -45,6 +47,7 @@ const beforeWasm: typeof afterWasm = await load("src/wasm/skeleton.ts");
 const beforeInstance: typeof afterInstance = await load("src/wasm/instance.ts");
 const beforeGraph: typeof afterGraph = await load("src/topology/skeleton.ts");
 const beforeAnalysis: typeof afterAnalysis = await load("src/topology/skeleton-analysis.ts");
+const beforeLabeling: { LabelingWorkspace: typeof LabelingWorkspace } = await load("src/wasm/labeling.ts");
 
 /** Seeded maze: white noise, three box blurs (radius r, wrapping), split at the median. */
 function maze(n: number, seed: number, r: number): Uint8Array {
@@ -110,12 +113,18 @@ function median(sample: number[]): number {
 }
 
 interface Candidate { name: string; run: () => void; ms: number[]; reps: number }
-interface Side { wasm: typeof afterWasm; instance: typeof afterInstance; graph: typeof afterGraph; analysis: typeof afterAnalysis }
+interface Side {
+  wasm: typeof afterWasm; instance: typeof afterInstance; graph: typeof afterGraph; analysis: typeof afterAnalysis;
+  labeling: { LabelingWorkspace: typeof LabelingWorkspace };
+}
 const sides: Array<[string, Side]> = [
-  ["before", { wasm: beforeWasm, instance: beforeInstance, graph: beforeGraph, analysis: beforeAnalysis }],
-  ["after", { wasm: afterWasm, instance: afterInstance, graph: afterGraph, analysis: afterAnalysis }],
+  ["before", { wasm: beforeWasm, instance: beforeInstance, graph: beforeGraph, analysis: beforeAnalysis, labeling: beforeLabeling }],
+  ["after", { wasm: afterWasm, instance: afterInstance, graph: afterGraph, analysis: afterAnalysis, labeling: { LabelingWorkspace } }],
 ];
-const PASSES = ["distance", "thinning + distance", "graph", "thinning + graph + classification", "analyzeSkeletons without the run"] as const;
+const PASSES = [
+  "distance", "thinning + distance", "graph", "thinning + graph + classification", "as the frame analysis calls it",
+  "analyzeSkeletons without the run",
+] as const;
 
 const sizes = quick ? [512] : [512, 1024];
 const candidates: Candidate[] = [];
@@ -153,6 +162,15 @@ for (const size of sizes) {
     add(`${size} ${side} thinning + distance`, () => { ws.run(phase, geometry); });
     add(`${size} ${side} graph`, () => { m.graph.skeletonGraph(input, { spurFactor: 3, junctionMergeFactor: 1 }); });
     add(`${size} ${side} thinning + graph + classification`, () => { m.analysis.analyzeSkeletons(frame, { boundary: "periodic" }, ws); });
+    // The same call as the frame analysis makes it: the labels where the side's own labeling
+    // left them in its Wasm memory (a fresh view per call), the skeleton and distance map left
+    // in the workspace (views; a revision without them copies).
+    const own = new m.labeling.LabelingWorkspace(size, size);
+    own.loadPhase(phase);
+    own.label(0, true, true);
+    add(`${size} ${side} as the frame analysis calls it`, () => {
+      m.analysis.analyzeSkeletons({ ...frame, labels: own.labels() }, { boundary: "periodic" }, ws, "views");
+    });
     // analyzeSkeletons on a workspace whose run hands back the last run's buffers: everything
     // the call does besides thinning (adjacency, graph, classification, summaries, copies).
     const q = ws as unknown as { sk: number; dist: number };
@@ -205,7 +223,7 @@ for (const size of sizes) {
   };
   for (const pass of PASSES) {
     const b = byName.get(`${size} before ${pass}`)!, a = byName.get(`${size} after ${pass}`)!;
-    row(pass === PASSES[3] ? `${pass} (total)` : pass, b, a);
+    row(pass === PASSES[3] ? `${pass} (total)` : pass === PASSES[4] ? `  ${pass}` : pass, b, a);
     if (pass === "thinning + distance") row("  thinning (run - distance)", thinOnly("before"), thinOnly("after"));
   }
   console.log(`  ${"Zhang-Suen plain TS (reference)".padEnd(44)}${median(zs.ms).toFixed(2).padStart(20)}`);
