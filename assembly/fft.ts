@@ -619,8 +619,8 @@ export function fft2Forward(p: usize, src: usize): i32 {
       const lane = <usize>i << 2;
       const er = tre + <usize>x * tsBytes, ei = tim + <usize>x * tsBytes;
       const hasOdd = x + 1 < w;
-      for (let ky = 0; ky < hh; ky++) {
-        if (ky == 1) { ky = kv; if (ky >= hh) break; }
+      // (row 0, then the rows from kv on: 1 .. kv - 1 went four at a time above)
+      for (let ky = 0; ky < hh; ky = ky == 0 ? kv : ky + 1) {
         const km = ky == 0 ? 0 : h - ky;
         const o = ra(ky) + lane, om = ra(km) + lane;
         const pr = load<f32>(zr + o), pi = load<f32>(zi + o);

@@ -235,6 +235,11 @@ export function skeletonCompact(
   }
 }
 
+/** clab[t] = the label (i32 per pixel at lab) of the pixel of skeleton index t, for t < count. */
+function labelsByIndex(lab: usize, clab: usize, list: usize, count: i32): void {
+  for (let t = 0; t < count; t++) sti(clab, t, ldi(lab, ldi(list, t)));
+}
+
 /**
  * The adjacency of skeletonNeighbours directly by skeleton index (the layout skeletonCompact
  * gives), without the frame-sized neighbour lists: list (pixel of each index, raster order),
@@ -317,7 +322,7 @@ export function skeletonNeighboursCompact(
     store<f32>(cdist + (<usize>t << 2), load<f32>(dst + (<usize>i << 2)));
     sti(ident, t, t);
   }
-  if (lab != 0) for (let t = 0; t < count; t++) sti(clab, t, ldi(lab, ldi(list, t)));
+  if (lab != 0) labelsByIndex(lab, clab, list, count);
   return count;
 }
 
@@ -508,6 +513,6 @@ export function skeletonNeighboursBits(
       }
     }
   }
-  if (lab != 0) for (let q = 0; q < count; q++) sti(clab, q, ldi(lab, ldi(list, q)));
+  if (lab != 0) labelsByIndex(lab, clab, list, count);
   return count;
 }

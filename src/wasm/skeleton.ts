@@ -53,12 +53,13 @@ export class SkeletonWorkspace {
   private readonly bits: number;
   private disposed = false;
   private adjacencyBuffers: { deg: number; list: number; nbr: number } | undefined;
-  private compactBuffers: { index: number; list: number; neighbours: number; degree: number; distance: number; identity: number; label: number } | undefined;
+  private compactBuffers: { list: number; neighbours: number; degree: number; distance: number; identity: number; label: number } | undefined;
   /** Where the labels given to domainTotals since the last run are in Wasm memory (0: none). */
   private labelsAt = 0;
   private lastGeometry: ThinGeometry | undefined;
   private totals: { ptr: number; capacity: number } | undefined;
   private neighbourBits: number | undefined;
+  private compactIndex: number | undefined;
 
   constructor(width: number, height: number) {
     if (!Number.isInteger(width) || !Number.isInteger(height) || width < 1 || height < 1) {
@@ -138,9 +139,9 @@ export class SkeletonWorkspace {
     if (!g) throw new Error("domtopo: SkeletonWorkspace.compactNeighbours() needs a run first");
     const { width, height } = this;
     const n = width * height;
-    // Sized for a skeleton of every pixel (a thinned frame has far fewer; 42 bytes a pixel).
+    // Sized for a skeleton of every pixel (a thinned frame has far fewer; 49 bytes a pixel).
     this.compactBuffers ??= {
-      index: wasmAlloc(4 * n), list: wasmAlloc(4 * n), neighbours: wasmAlloc(32 * n), degree: wasmAlloc(n),
+      list: wasmAlloc(4 * n), neighbours: wasmAlloc(32 * n), degree: wasmAlloc(n),
       distance: wasmAlloc(4 * n), identity: wasmAlloc(4 * n), label: wasmAlloc(4 * n),
     };
     const c = this.compactBuffers;
@@ -153,7 +154,9 @@ export class SkeletonWorkspace {
       this.neighbourBits ??= wasmAlloc(k.neighbourBitsBytes(width, height));
       count = k.skeletonNeighboursBits(this.sk, this.dist, this.neighbourBits, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
     } else {
-      count = k.skeletonNeighboursCompact(this.sk, this.dist, c.index, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
+      // (its pixel-to-index scratch, frame-sized, only for this kernel)
+      this.compactIndex ??= wasmAlloc(4 * n);
+      count = k.skeletonNeighboursCompact(this.sk, this.dist, this.compactIndex, c.list, c.neighbours, c.degree, c.distance, c.identity, lab, c.label);
     }
     const out: CompactSkeletonNeighbours = { count, list: c.list, neighbours: c.neighbours, degree: c.degree, distance: c.distance, identity: c.identity };
     if (lab) out.label = c.label;
@@ -211,6 +214,7 @@ export class SkeletonWorkspace {
     if (this.adjacencyBuffers) for (const p of [this.adjacencyBuffers.deg, this.adjacencyBuffers.list, this.adjacencyBuffers.nbr]) wasmFree(p);
     if (this.compactBuffers) for (const p of Object.values(this.compactBuffers)) wasmFree(p);
     if (this.neighbourBits !== undefined) wasmFree(this.neighbourBits);
+    if (this.compactIndex !== undefined) wasmFree(this.compactIndex);
     for (const p of [this.ph, this.qm, this.sk, this.list, this.cand, this.dist, this.vert, this.scratch, this.counts, this.bits]) wasmFree(p);
   }
 }
