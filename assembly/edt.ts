@@ -253,8 +253,9 @@ let IB: usize = 0; // i16 starting distances min(b^2, g^2), w + 32 slots
 
 @inline function store8(out: usize, r: i32, x: i32, w: i32, best: v128, capv: v128): void {
   if (x >= w) return;
-  const lo = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_low_i16x8_s(best))), capv);
-  const hi = f32x4.min(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_high_i16x8_s(best))), capv);
+  // pmin is one minps; f32x4.min also orders NaN and -0, which a square root of a count never is.
+  const lo = f32x4.pmin(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_low_i16x8_s(best))), capv);
+  const hi = f32x4.pmin(f32x4.sqrt(f32x4.convert_i32x4_s(i32x4.extend_high_i16x8_s(best))), capv);
   const p = out + (<usize>(r + x) << 2);
   if (x + 8 <= w) { v128.store(p, lo); v128.store(p, hi, 16); return; }
   store<f32>(p, f32x4.extract_lane(lo, 0));

@@ -348,10 +348,16 @@ export function domainTotals(labels: usize, ph: usize, dist: usize, n: i32, coun
     while (j + 4 <= n) {
       const q = <usize>j << 2;
       if (i32x4.bitmask(i32x4.eq(v128.load(labels + q), lv)) != 15) break;
-      mv = f32x4.max(mv, v128.load(dist + q));
+      mv = f32x4.pmax(mv, v128.load(dist + q));
       j += 4;
     }
-    let m = max(load<f64>(pm), <f64>max(max(f32x4.extract_lane(mv, 0), f32x4.extract_lane(mv, 1)), max(f32x4.extract_lane(mv, 2), f32x4.extract_lane(mv, 3))));
+    // The lanes' largest by shuffles and comparisons (f32.max / f64.max also order NaN and -0,
+    // at a cost: distances have neither).
+    mv = f32x4.pmax(mv, v128.shuffle<f32>(mv, mv, 2, 3, 0, 1));
+    mv = f32x4.pmax(mv, v128.shuffle<f32>(mv, mv, 1, 0, 3, 2));
+    let m = load<f64>(pm);
+    const v4 = <f64>f32x4.extract_lane(mv, 0);
+    if (v4 > m) m = v4;
     while (j < n && load<i32>(labels + (<usize>j << 2)) == l) {
       const v = <f64>load<f32>(dist + (<usize>j << 2));
       if (v > m) m = v;
