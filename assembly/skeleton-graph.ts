@@ -155,8 +155,10 @@ export function skeletonWalk(
         sum += dc; cnt++;
         if (dc > mx) mx = dc;
         const cbase = pairs + (<usize>cur << 3);
-        const n0 = load<i32>(cbase);
-        const e = <i32>(<u32>n0 >> 3) == prev ? load<i32>(cbase, 4) : n0;
+        // The way on is the pair's other entry: taken by a select, not a branch (which of the
+        // two is the way back is a coin toss along a line, a branch mispredicted half the time).
+        const n0 = load<i32>(cbase), n1 = load<i32>(cbase, 4);
+        const e = select<i32>(n1, n0, <i32>(<u32>n0 >> 3) == prev);
         const next = <i32>(<u32>e >> 3), dout = e & 7;
         len += ldf(chord, (din << 3) + dout);
         const on = ldi(owner, next);
@@ -196,8 +198,8 @@ export function skeletonWalk(
       sum += dc; cnt++;
       if (dc > mx) mx = dc;
       const cbase = pairs + (<usize>cur << 3);
-      const n0 = load<i32>(cbase);
-      const e = <i32>(<u32>n0 >> 3) == prev ? load<i32>(cbase, 4) : n0;
+      const n0 = load<i32>(cbase), n1 = load<i32>(cbase, 4);
+      const e = select<i32>(n1, n0, <i32>(<u32>n0 >> 3) == prev);
       len += ldf(chord, (din << 3) + (e & 7));
       prev = cur; cur = <i32>(<u32>e >> 3); din = e & 7;
     }
@@ -476,26 +478,24 @@ export function skeletonNeighboursBits(
           const c3 = <i32>((load<u64>(plane + ro + xo) >> xs) & 7);
           const n3 = <i32>((load<u64>(plane + uo + xo) >> xs) & 7);
           const s3 = <i32>((load<u64>(plane + doo + xo) >> xs) & 7);
-          let rn = 0, rs = 0, bn = 0, bs = 0;
-          if ((n3 | s3) != 0) {
-            // Ranks of (x, y - 1) and (x, y + 1), and whether those are skeleton pixels.
-            const below = ((<u64>1) << <u64>b) - 1;
-            const wn = load<u64>(both + uo + ko), wsw = load<u64>(both + doo + ko);
-            rn = load<i32>(rankUp + (<usize>k << 2)) + <i32>popcnt(wn & below);
-            rs = load<i32>(rankDown + (<usize>k << 2)) + <i32>popcnt(wsw & below);
-            bn = <i32>((wn >> <u64>b) & 1); bs = <i32>((wsw >> <u64>b) & 1);
-          }
-          // E, N, W, S, then NE, NW, SW, SE (diagonals for the 8-connected phase only).
-          if ((c3 & 4) != 0) { store<i32>(base + (<usize>d << 2), (t + 1) << 3); d++; }
-          if ((n3 & 2) != 0) { store<i32>(base + (<usize>d << 2), (rn << 3) | 1); d++; }
-          if ((c3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((t - 1) << 3) | 2); d++; }
-          if ((s3 & 2) != 0) { store<i32>(base + (<usize>d << 2), (rs << 3) | 3); d++; }
-          if (diag) {
-            if ((n3 & 4) != 0) { store<i32>(base + (<usize>d << 2), ((rn + bn) << 3) | 4); d++; }
-            if ((n3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((rn - 1) << 3) | 5); d++; }
-            if ((s3 & 1) != 0) { store<i32>(base + (<usize>d << 2), ((rs - 1) << 3) | 6); d++; }
-            if ((s3 & 4) != 0) { store<i32>(base + (<usize>d << 2), ((rs + bs) << 3) | 7); d++; }
-          }
+          // Ranks of (x, y - 1) and (x, y + 1), and whether those are skeleton pixels.
+          const below = ((<u64>1) << <u64>b) - 1;
+          const wn = load<u64>(both + uo + ko), wsw = load<u64>(both + doo + ko);
+          const rn = load<i32>(rankUp + (<usize>k << 2)) + <i32>popcnt(wn & below);
+          const rs = load<i32>(rankDown + (<usize>k << 2)) + <i32>popcnt(wsw & below);
+          const bn = <i32>((wn >> <u64>b) & 1), bs = <i32>((wsw >> <u64>b) & 1);
+          // E, N, W, S, then NE, NW, SW, SE (diagonals for the 8-connected phase only). Every
+          // slot is written and kept only where the neighbour is there (d advances by 0 or 1):
+          // whether a ring pixel is there follows no pattern a branch predictor could learn.
+          const dm = -diag;
+          store<i32>(base, (t + 1) << 3); d += (c3 >> 2) & 1;
+          store<i32>(base + (<usize>d << 2), (rn << 3) | 1); d += (n3 >> 1) & 1;
+          store<i32>(base + (<usize>d << 2), ((t - 1) << 3) | 2); d += c3 & 1;
+          store<i32>(base + (<usize>d << 2), (rs << 3) | 3); d += (s3 >> 1) & 1;
+          store<i32>(base + (<usize>d << 2), ((rn + bn) << 3) | 4); d += (n3 >> 2) & dm & 1;
+          store<i32>(base + (<usize>d << 2), ((rn - 1) << 3) | 5); d += n3 & dm & 1;
+          store<i32>(base + (<usize>d << 2), ((rs - 1) << 3) | 6); d += s3 & dm & 1;
+          store<i32>(base + (<usize>d << 2), ((rs + bs) << 3) | 7); d += (s3 >> 2) & dm & 1;
         } else {
           // On the frame's rim: wrap-aware positions, -1 beyond an open side.
           const xm = x > 0 ? x - 1 : px ? w - 1 : -1;
