@@ -98,45 +98,46 @@ export function prunedSkeleton(g: SkeletonGraph, pixels?: ArrayLike<number>, cou
 }
 
 /**
- * prunedSkeleton decided now (which branches and nodes survive), its pixels made when the
- * returned function is first called (later changes to the graph do not change it).
+ * prunedSkeleton as the graph is now, its pixels made when the returned function is first
+ * called (later changes to the graph do not change it: the tables that decide it are copied
+ * now, which is cheaper than deciding it for a result that is often never read).
  */
 export function prunedSkeletonLater(g: SkeletonGraph, pixels?: ArrayLike<number>, count?: number): () => Uint8Array {
-  // Whether each branch's and node's pixels survive, decided once per branch and node.
-  const keepBranch = new Uint8Array(g.branchCount), keepNode = new Uint8Array(g.nodeCount);
-  for (let b = 0; b < g.branchCount; b++) {
-    const r = follow(g.branchParent, b);
-    const into = g.branchIntoNode[r]!;
-    keepBranch[b] = g.branchAlive[r] || (into >= 0 && g.nodeDegree[follow(g.nodeParent, into)]! >= 0) ? 1 : 0;
-  }
-  for (let v = 0; v < g.nodeCount; v++) {
-    const r = follow(g.nodeParent, v);
-    const into = g.nodeIntoBranch[r]!;
-    keepNode[v] = g.nodeDegree[r]! >= 0 || (into >= 0 && g.branchAlive[follow(g.branchParent, into)]) ? 1 : 0;
-  }
-  const keep = (o: number): number => (o >= 0 ? keepBranch[o] ?? 0 : o !== -1 ? keepNode[-2 - o]! : 0);
+  const nb = g.branchCount, nn = g.nodeCount;
+  const branchParent = g.branchParent.slice(0, nb), branchIntoNode = g.branchIntoNode.slice(0, nb);
+  const branchAlive = g.branchAlive.slice(0, nb);
+  const nodeParent = g.nodeParent.slice(0, nn), nodeIntoBranch = g.nodeIntoBranch.slice(0, nn);
+  const nodeDegree = g.nodeDegree.slice(0, nn);
   const known = ownersOf.get(g);
+  const owner = known ? undefined : g.pixelOwner.slice();
+  const list = !known && pixels ? Int32Array.from({ length: count ?? pixels.length }, (_v, t) => pixels[t]!) : undefined;
   let out: Uint8Array | undefined;
-  if (known) {
-    // A graph made here: owners by skeleton pixel, no frame-sized pass.
-    return () => {
-      if (!out) {
-        out = new Uint8Array(known.n);
-        for (let t = 0; t < known.pixels.length; t++) out[known.pixels[t]!] = keep(known.owners[t]!);
-      }
-      return out;
-    };
-  }
-  const owner = g.pixelOwner.slice();
-  const list = pixels ? Int32Array.from({ length: count ?? pixels.length }, (_v, t) => pixels[t]!) : undefined;
   return () => {
-    if (!out) {
-      out = new Uint8Array(owner.length);
-      const m = list ? list.length : owner.length;
-      for (let t = 0; t < m; t++) {
-        const i = list ? list[t]! : t;
-        out[i] = keep(owner[i]!);
-      }
+    if (out) return out;
+    // Whether each branch's and node's pixels survive, decided once per branch and node.
+    const keepBranch = new Uint8Array(nb), keepNode = new Uint8Array(nn);
+    for (let b = 0; b < nb; b++) {
+      const r = follow(branchParent, b);
+      const into = branchIntoNode[r]!;
+      keepBranch[b] = branchAlive[r] || (into >= 0 && nodeDegree[follow(nodeParent, into)]! >= 0) ? 1 : 0;
+    }
+    for (let v = 0; v < nn; v++) {
+      const r = follow(nodeParent, v);
+      const into = nodeIntoBranch[r]!;
+      keepNode[v] = nodeDegree[r]! >= 0 || (into >= 0 && branchAlive[follow(branchParent, into)]) ? 1 : 0;
+    }
+    const keep = (o: number): number => (o >= 0 ? keepBranch[o] ?? 0 : o !== -1 ? keepNode[-2 - o]! : 0);
+    if (known) {
+      // A graph made here: owners by skeleton pixel, no frame-sized pass.
+      out = new Uint8Array(known.n);
+      for (let t = 0; t < known.pixels.length; t++) out[known.pixels[t]!] = keep(known.owners[t]!);
+      return out;
+    }
+    out = new Uint8Array(owner!.length);
+    const m = list ? list.length : owner!.length;
+    for (let t = 0; t < m; t++) {
+      const i = list ? list[t]! : t;
+      out[i] = keep(owner![i]!);
     }
     return out;
   };
